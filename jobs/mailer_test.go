@@ -3,6 +3,7 @@ package jobs
 import (
 	"bytes"
 	"context"
+	"crypto/tls"
 	"encoding/base64"
 	"fmt"
 	"io"
@@ -18,6 +19,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/emersion/go-smtp"
 	"github.com/jonboulle/clockwork"
 
 	"plumbline/jobs/config"
@@ -388,5 +390,38 @@ func TestLoadPassword(t *testing.T) {
 				t.Fatalf("error shows the password: %v", err)
 			}
 		})
+	}
+}
+
+// TestImplicitTLS: tls = "implicit" speaks TLS from the first byte
+// (RFC 8314 section 3.3, submission over TLS).
+func TestImplicitTLS(t *testing.T) {
+	dir := t.TempDir()
+	serverTLS, clientTLS := selfSignedTLS(t)
+	ln, err := tls.Listen("tcp", "127.0.0.1:0", serverTLS)
+	if err != nil {
+		t.Fatal(err)
+	}
+	srv := &smtpServer{}
+	srv.srv = smtp.NewServer(srv)
+	srv.srv.Domain = "mx.example.com"
+	go srv.srv.Serve(ln)
+	defer srv.srv.Close()
+	cfg := smtpConfig(t, dir, ln.Addr().String())
+	cfg.Mail.TLS = "implicit"
+	db := openDB(t, cfg.Database)
+	pdf := []byte("%PDF-1.7 implicit")
+	enqueueTestMessage(t, db, "GROWTH", pdf, "committee@example.com")
+	sender, err := NewSender(cfg.Mail, func(string) string { return "" }, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sender.(*SMTPSender).TLSConfig = clientTLS
+	d := newDaemon(t, DaemonOptions{Config: cfg, DB: db, Sender: sender})
+	if outcome, err := d.RunOutbox(context.Background()); outcome != store.JobOK || err != nil {
+		t.Fatalf("RunOutbox = %s, %v", outcome, err)
+	}
+	if msgs := srv.messages(); len(msgs) != 1 || !bytes.Equal(parseMessage(t, msgs[0].data).attachment, pdf) {
+		t.Fatalf("received %d messages", len(msgs))
 	}
 }

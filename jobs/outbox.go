@@ -20,9 +20,14 @@ import (
 // large backlog does not hold the job (and a shutdown) for long.
 const maxPerOutboxRun = 200
 
+// idleRecordsKept is how long the records of outbox executions that found
+// nothing to send are kept.
+const idleRecordsKept = 7 * 24 * time.Hour
+
 // RunOutbox delivers the due messages of the outbox: the outbox job.
+// After an idle execution it prunes idle records older than a week.
 func (d *Daemon) RunOutbox(ctx context.Context) (string, error) {
-	return d.execute(ctx, JobOutbox, time.Time{}, func(ctx context.Context) (bool, error) {
+	outcome, err := d.execute(ctx, JobOutbox, time.Time{}, func(ctx context.Context) (bool, error) {
 		sent, failed, err := d.deliverDue(ctx)
 		if err != nil {
 			return false, err
@@ -32,6 +37,14 @@ func (d *Daemon) RunOutbox(ctx context.Context) (string, error) {
 		}
 		return sent == 0, nil
 	})
+	if outcome == store.JobSkipped {
+		if n, err := d.db.PruneIdleJobRuns(context.WithoutCancel(ctx), JobOutbox, d.clock.Now().Add(-idleRecordsKept)); err != nil {
+			d.log.Warn("cannot prune idle outbox records", "err", err)
+		} else if n > 0 {
+			d.log.Debug("pruned idle outbox records", "count", n)
+		}
+	}
+	return outcome, err
 }
 
 // deliverDue claims and sends due messages one at a time until none is

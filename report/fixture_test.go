@@ -1,7 +1,6 @@
 package report
 
 import (
-	"fmt"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -471,5 +470,3 @@ func fixtureDoc(nHold int) *pack.Document {
 	}
 	return d
 }
-
-var _ = fmt.Sprint

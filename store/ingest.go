@@ -77,6 +77,12 @@ func (o IngestOptions) withDefaults() IngestOptions {
 // differs from the stored one for its portfolio and date becomes a new
 // revision and the old one stays, marked superseded.
 //
+// A file with a header and no rows is accepted with 0 rows (an empty
+// delivery is not an error); an empty file, without even a header, is
+// rejected. Files are UTF-8 CSV (RFC 4180 quoting, LF or CRLF, an
+// optional byte-order mark); lines over 64 KiB and records over 64 fields
+// are refused, so memory stays bounded whatever the input.
+//
 // The returned error is for failures other than invalid input (a file
 // that cannot be read, a database error, ctx cancelled); the results of
 // the files finished before it are returned with it.
@@ -373,9 +379,6 @@ func (c *rawConn) load(ctx context.Context, r io.Reader, h hash.Hash, opt Ingest
 	if err := ld.finish(lc); err != nil {
 		return err
 	}
-	// Rows refused by the database are reported when their batch is
-	// written, after later rows were checked: restore line order.
-	sort.SliceStable(errs.errs, func(i, j int) bool { return errs.errs[i].Line < errs.errs[j].Line })
 	res.Unchanged = lc.unchanged
 	res.Snapshots = lc.snapshots
 	if len(errs.errs) == 0 && h != nil && hex.EncodeToString(h.Sum(nil)) != res.SHA256 {

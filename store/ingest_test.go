@@ -582,3 +582,63 @@ func TestIngestLateDuplicate(t *testing.T) {
 		t.Errorf("load of accepted content: %v, want errLateDuplicate", err)
 	}
 }
+
+// Prices go in batches; a batch refused by the database is replayed row
+// by row, so the errors still name the right lines and repeated rows
+// still count as unchanged.
+func TestIngestPriceBatches(t *testing.T) {
+	db := baseDB(t)
+	// 150 weekdays of QLMB from 2026-01-05: more than two batches.
+	var days []string
+	for d := day("2026-01-05"); len(days) < 150; d = d.AddDate(0, 0, 1) {
+		if wd := d.Weekday(); wd != time.Saturday && wd != time.Sunday {
+			days = append(days, d.Format(time.DateOnly))
+		}
+	}
+	var first strings.Builder
+	first.WriteString(hdrPrices)
+	for i, d := range days {
+		first.WriteString(d + ",QLMB," + strconv.Itoa(40+i%7) + ".5,,\n")
+	}
+	r := ingest(t, db, IngestOptions{}, writeFiles(t, "first.csv", first.String())...)[0]
+	if r.Outcome != Accepted || count(t, db, "prices") != 150 {
+		t.Fatalf("first: %s, %d prices: %v", r.Outcome, count(t, db, "prices"), r.Err())
+	}
+
+	// The same 150 rows with, on line 101, another close, and on line
+	// 140 a new row repeated on line 141 (same batch).
+	var second strings.Builder
+	second.WriteString(hdrPrices)
+	for i, d := range days {
+		px := strconv.Itoa(40+i%7) + ".5"
+		if i == 99 {
+			px = "99"
+		}
+		second.WriteString(d + ",QLMB," + px + ",,\n")
+		if i == 137 {
+			second.WriteString(d + ",VNTR.A,9,,\n" + d + ",VNTR.A,9,,\n")
+		}
+	}
+	r = ingest(t, db, IngestOptions{}, writeFiles(t, "second.csv", second.String())...)[0]
+	want := []string{
+		`second.csv:101: close: "99" differs from the value 41.5 stored from first.csv line 101`, // 40 + 99%7
+		`second.csv:141: security_id: "VNTR.A" repeats the key (` + days[137] + `, VNTR.A) of line 140`,
+	}
+	var got []string
+	for i := range r.Errors {
+		got = append(got, r.Errors[i].Error())
+	}
+	if r.Outcome != Rejected || strings.Join(got, "\n") != strings.Join(want, "\n") {
+		t.Errorf("second: %s\n%s\nwant\n%s", r.Outcome, strings.Join(got, "\n"), strings.Join(want, "\n"))
+	}
+	if count(t, db, "prices") != 150 {
+		t.Errorf("%d prices after a rejected file, want 150", count(t, db, "prices"))
+	}
+
+	// All 150 again plus one new: 150 unchanged, 1 stored.
+	again := first.String() + "2026-12-01,QLMB,50,,\n"
+	r = ingest(t, db, IngestOptions{}, writeFiles(t, "third.csv", again)...)[0]
+	if r.Outcome != Accepted || r.Unchanged != 150 || count(t, db, "prices") != 151 {
+		t.Errorf("third: %s, unchanged %d, %d prices: %v", r.Outcome, r.Unchanged, count(t, db, "prices"), r.Err())
+	}
+}

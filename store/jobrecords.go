@@ -257,3 +257,17 @@ func (db *DB) LastFetch(ctx context.Context, source string) (*Fetch, error) {
 	}
 	return &f, nil
 }
+
+// PruneIdleJobRuns deletes the records of job's executions that had
+// nothing to do (outcome skipped, no text) started before before, so a
+// job running every minute does not grow the log without bound. Records
+// of work done, failures and skips with a reason are kept.
+func (db *DB) PruneIdleJobRuns(ctx context.Context, job string, before time.Time) (int64, error) {
+	res, err := db.sql.ExecContext(ctx,
+		`DELETE FROM job_runs WHERE job = ? AND outcome = 'skipped' AND error = '' AND started_at < ?`,
+		job, daemonStamp(before))
+	if err != nil {
+		return 0, daemonErr("prune job runs", err)
+	}
+	return res.RowsAffected()
+}

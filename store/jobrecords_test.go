@@ -85,3 +85,31 @@ func TestFetchLog(t *testing.T) {
 		t.Fatalf("LastFetch = %+v, %v", f, err)
 	}
 }
+
+func TestPruneIdleJobRuns(t *testing.T) {
+	db := openTestDB(t)
+	ctx := context.Background()
+	old := t0.Add(-10 * 24 * time.Hour)
+	add := func(job string, at time.Time, outcome, text string) {
+		id, err := db.StartJob(ctx, job, time.Time{}, "A", at)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := db.FinishJob(ctx, id, at, outcome, text); err != nil {
+			t.Fatal(err)
+		}
+	}
+	add("outbox", old, store.JobSkipped, "")  // idle, old: pruned
+	add("outbox", old, store.JobOK, "")       // work done: kept
+	add("outbox", old, store.JobError, "421") // failure: kept
+	add("outbox", t0, store.JobSkipped, "")   // idle, recent: kept
+	add("pack", old, store.JobSkipped, "")    // other job: kept
+	n, err := db.PruneIdleJobRuns(ctx, "outbox", t0.Add(-7*24*time.Hour))
+	if err != nil || n != 1 {
+		t.Fatalf("PruneIdleJobRuns = %d, %v; want 1", n, err)
+	}
+	recs, _ := db.JobRuns(ctx, "", 10)
+	if len(recs) != 4 {
+		t.Fatalf("%d records left, want 4", len(recs))
+	}
+}

@@ -64,6 +64,7 @@ func newPipedReader(r io.Reader) *pipedReader {
 
 func (p *pipedReader) produce(cr *csvReader) {
 	defer p.wg.Done()
+	var ce *csvError // outside the loop: errors.As(err, &ce) would allocate it per row
 	for {
 		var b *recBatch
 		select {
@@ -74,8 +75,7 @@ func (p *pipedReader) produce(cr *csvReader) {
 		b.items, b.buf, b.ends, b.err = b.items[:0], b.buf[:0], b.ends[:0], nil
 		for len(b.items) < pipeBatch && len(b.buf) < pipeBytes {
 			fields, line, err := cr.next()
-			var ce *csvError
-			if errors.As(err, &ce) {
+			if err != nil && errors.As(err, &ce) {
 				b.items = append(b.items, recItem{line: line, err: ce})
 				continue
 			}

@@ -35,7 +35,10 @@ type DB struct {
 func Open(ctx context.Context, path string) (*DB, error) {
 	// _txlock=immediate: a writing transaction takes the write lock at
 	// BEGIN, so two writers queue on the busy timeout instead of failing
-	// with SQLITE_BUSY when a reader upgrades.
+	// with SQLITE_BUSY when a reader upgrades. _cache_size: a 64 MiB page
+	// cache (SQLite's default is 2 MiB) keeps a million-row ingest from
+	// spilling pages to the WAL mid-transaction, which measured about
+	// half of its time.
 	dsn := fmt.Sprintf("file:%s?_journal_mode=WAL&_foreign_keys=on&_busy_timeout=%d&_txlock=immediate&_cache_size=-65536",
 		escapePath(path), busyTimeoutMS)
 	db, err := open(ctx, path, dsn, false)

@@ -134,7 +134,7 @@ func runIngest(ctx context.Context, args []string, stdout io.Writer) error {
 
 	rate := func(d time.Duration) float64 { return float64(*rows) / d.Seconds() }
 	fmt.Fprintf(stdout, "ingest of %d price rows (%d fictional securities), best of %d runs\n", *rows, *nsec, *runs)
-	tw := tabwriter.NewWriter(stdout, 0, 4, 2, ' ', tabwriter.AlignRight)
+	tw := tabwriter.NewWriter(stdout, 0, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "tool\tbest s\trows/s\tplumbline/tool\truns s\t")
 	for _, t := range []*tool{plumb, same, dflt} {
 		var all []string
