@@ -49,11 +49,7 @@ func (c *exportCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	cfg, err := c.load()
-	if err != nil {
-		return err
-	}
-	db, err := openDB(ctx, cfg)
+	_, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}

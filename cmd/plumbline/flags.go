@@ -108,9 +108,18 @@ func writeJSON(w io.Writer, v any) error {
 	return enc.Encode(v)
 }
 
-// openDB opens the configured database (creating and migrating it).
-func openDB(ctx context.Context, cfg *config.Config) (*store.DB, error) {
-	return store.Open(ctx, cfg.Database)
+// open loads the configuration, applies --db and opens the database
+// (creating and migrating it). The caller closes the database.
+func (cm *common) open(ctx context.Context) (*config.Config, *store.DB, error) {
+	cfg, err := cm.load()
+	if err != nil {
+		return nil, nil, err
+	}
+	db, err := store.Open(ctx, cfg.Database)
+	if err != nil {
+		return nil, nil, err
+	}
+	return cfg, db, nil
 }
 
 // parseDate reads an ISO 8601 calendar date flag.
@@ -123,6 +132,14 @@ func parseDate(name, s string) (time.Time, error) {
 		return time.Time{}, usageError("--%s: %q is not a YYYY-MM-DD date", name, s)
 	}
 	return t, nil
+}
+
+// oneRunID reads the single run id argument of show, verify and render.
+func oneRunID(pos []string) (int64, error) {
+	if len(pos) != 1 {
+		return 0, usageError("want one run id")
+	}
+	return parseRunID(pos[0])
 }
 
 // parseRunID reads a run id argument.

@@ -63,11 +63,7 @@ func (c *historyCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	cfg, err := c.load()
-	if err != nil {
-		return err
-	}
-	db, err := openDB(ctx, cfg)
+	_, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}

@@ -1,10 +1,7 @@
 package main
 
 import (
-	"bytes"
-	"context"
 	"encoding/json"
-	"flag"
 	"os"
 	"path/filepath"
 	"strings"
@@ -12,29 +9,6 @@ import (
 
 	"plumbline/store"
 )
-
-// Golden files are rewritten with: go test ./cmd/plumbline -run Ingest -update
-func init() {
-	// Other command tests of this package may define the same flag.
-	if flag.Lookup("update") == nil {
-		flag.Bool("update", false, "rewrite the golden files under testdata")
-	}
-}
-
-func updateGolden() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
-
-// runCmd runs the command line in-process and returns stdout, stderr and
-// the exit code.
-func runIngestCmd(t *testing.T, args ...string) (string, string, int) {
-	t.Helper()
-	var out, errOut bytes.Buffer
-	env := &Env{Stdout: &out, Stderr: &errOut, Getenv: func(string) string { return "" }}
-	code := run(context.Background(), env, args)
-	return out.String(), errOut.String(), code
-}
 
 // The output of `plumbline ingest` for each case under
 // testdata/ingest/<case>/: the folders runN are ingested in turn into one
@@ -59,24 +33,12 @@ func TestIngestGolden(t *testing.T) {
 			for i, r := range tc.runs {
 				var stderr string
 				var code int
-				stdout, stderr, code = runIngestCmd(t, "ingest", "--db", db, filepath.Join(dir, r))
+				stdout, stderr, code = runCmd(t, "ingest", "--db", db, filepath.Join(dir, r))
 				if code != tc.codes[i] {
 					t.Fatalf("run %d: exit %d, want %d\nstdout:\n%s\nstderr:\n%s", i+1, code, tc.codes[i], stdout, stderr)
 				}
 			}
-			golden := filepath.Join(dir, "want.txt")
-			if updateGolden() {
-				if err := os.WriteFile(golden, []byte(stdout), 0o644); err != nil {
-					t.Fatal(err)
-				}
-			}
-			want, err := os.ReadFile(golden)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if stdout != string(want) {
-				t.Errorf("stdout differs from %s:\n--- got\n%s--- want\n%s", golden, stdout, want)
-			}
+			checkGolden(t, filepath.Join(dir, "want.txt"), stdout)
 		})
 	}
 }
@@ -95,7 +57,7 @@ func TestIngestJSONAndQuarantine(t *testing.T) {
 		}
 	}
 	q := filepath.Join(t.TempDir(), "quarantine")
-	stdout, stderr, code := runIngestCmd(t, "ingest", "--json", "--quarantine", q, "--db", filepath.Join(t.TempDir(), "p.db"), in)
+	stdout, stderr, code := runCmd(t, "ingest", "--json", "--quarantine", q, "--db", filepath.Join(t.TempDir(), "p.db"), in)
 	if code != exitRejected || !strings.Contains(stderr, "1 of 3 files rejected") {
 		t.Fatalf("exit %d, stderr %q", code, stderr)
 	}
@@ -124,17 +86,17 @@ func TestIngestJSONAndQuarantine(t *testing.T) {
 
 // Bad command lines exit 2; a missing path is a failure (exit 1).
 func TestIngestUsage(t *testing.T) {
-	if _, _, code := runIngestCmd(t, "ingest"); code != exitUsage {
+	if _, _, code := runCmd(t, "ingest"); code != exitUsage {
 		t.Errorf("no paths: exit %d, want %d", code, exitUsage)
 	}
-	if _, _, code := runIngestCmd(t, "ingest", "--nope", "x"); code != exitUsage {
+	if _, _, code := runCmd(t, "ingest", "--nope", "x"); code != exitUsage {
 		t.Errorf("unknown flag: exit %d, want %d", code, exitUsage)
 	}
 	db := filepath.Join(t.TempDir(), "p.db")
-	if _, stderr, code := runIngestCmd(t, "ingest", "--db", db, filepath.Join(t.TempDir(), "missing.csv")); code != exitFailure || stderr == "" {
+	if _, stderr, code := runCmd(t, "ingest", "--db", db, filepath.Join(t.TempDir(), "missing.csv")); code != exitFailure || stderr == "" {
 		t.Errorf("missing file: exit %d (%q), want %d", code, stderr, exitFailure)
 	}
-	if out, _, code := runIngestCmd(t, "ingest", "--help"); code != exitOK || !strings.Contains(out, "--quarantine DIR") {
+	if out, _, code := runCmd(t, "ingest", "--help"); code != exitOK || !strings.Contains(out, "--quarantine DIR") {
 		t.Errorf("--help: exit %d\n%s", code, out)
 	}
 }

@@ -65,11 +65,7 @@ func (c *packCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	cfg, err := c.load()
-	if err != nil {
-		return err
-	}
-	db, err := openDB(ctx, cfg)
+	cfg, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}

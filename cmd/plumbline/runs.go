@@ -55,11 +55,7 @@ func (c *runsCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	cfg, err := c.load()
-	if err != nil {
-		return err
-	}
-	db, err := openDB(ctx, cfg)
+	_, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}

@@ -42,18 +42,11 @@ func (c *verifyCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if len(pos) != 1 {
-		return usageError("want one run id")
-	}
-	id, err := parseRunID(pos[0])
+	id, err := oneRunID(pos)
 	if err != nil {
 		return err
 	}
-	cfg, err := c.load()
-	if err != nil {
-		return err
-	}
-	db, err := openDB(ctx, cfg)
+	_, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}
