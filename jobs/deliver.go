@@ -15,7 +15,7 @@ import (
 // DeliverNow sends every due outbox message once, as the daemon's outbox
 // job does, and returns the files in the mail folder when delivery is
 // "folder".
-func DeliverNow(ctx context.Context, db *store.DB, cfg *config.Config, log *slog.Logger, now func() time.Time) ([]string, error) {
+func DeliverNow(ctx context.Context, db *store.DB, cfg *config.Config, log *slog.Logger) ([]string, error) {
 	d, err := NewDaemon(DaemonOptions{Config: cfg, DB: db, Logger: log,
 		Pack: func(context.Context, time.Time) error { return nil }})
 	if err != nil {

@@ -2,9 +2,7 @@ package jobs
 
 import (
 	"context"
-	"crypto/sha256"
 	"encoding/csv"
-	"encoding/hex"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -13,14 +11,8 @@ import (
 	"strings"
 	"time"
 
-	"plumbline/jobs/config"
 	"plumbline/store"
 )
-
-func sha256Hex(b []byte) string {
-	s := sha256.Sum256(b)
-	return hex.EncodeToString(s[:])
-}
 
 // ExportResult lists what Export wrote.
 type ExportResult struct {
@@ -29,30 +21,16 @@ type ExportResult struct {
 }
 
 // Export writes everything an auditor needs to inspect a run into dir:
-// the inputs the run used as CSV files in the ingest formats (so they can
-// be ingested again), the results JSON, the stored configuration, the PDF
-// when there is one, and MANIFEST.sha256 with the sha256 of each file.
+// the inputs the run used (read at the run's ledger mark) as CSV files in
+// the ingest formats (so they can be ingested again), the results JSON,
+// the stored configuration, the PDF when there is one, and
+// MANIFEST.sha256 with the sha256 of each file.
 func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*ExportResult, error) {
-	run, err := db.GetRun(ctx, runID)
+	sr, err := loadStoredRun(ctx, db, runID)
 	if err != nil {
 		return nil, err
 	}
-	cfg, err := config.FromCanonical(run.ConfigJSON)
-	if err != nil {
-		return nil, err
-	}
-	ports, err := selectPortfolios(ctx, db, []string{run.PortfolioID})
-	if err != nil {
-		return nil, err
-	}
-	m, err := loadMarket(ctx, db, run.AsOf)
-	if err != nil {
-		return nil, err
-	}
-	in, err := gather(ctx, db, m, ports[0], cfg.BaseCurrency, nil)
-	if err != nil {
-		return nil, err
-	}
+	run, in := sr.run, sr.inputs
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
 	}
@@ -68,26 +46,25 @@ func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*Export
 	put := func(name string, header []string, rows [][]string) error {
 		var b strings.Builder
 		w := csv.NewWriter(&b)
-		if err := w.Write(header); err != nil {
-			return err
-		}
-		if err := w.WriteAll(rows); err != nil {
-			return err
+		w.Write(header)
+		w.WriteAll(rows) // flushes
+		if err := w.Error(); err != nil {
+			return fmt.Errorf("export run %d: %s: %w", runID, name, err)
 		}
 		files[name] = []byte(b.String())
 		return nil
 	}
-	p := ports[0]
+	p := in.Portfolio
 	var rows [][]string
-	rows = append(rows, []string{p.ID, p.Name, p.Strategy, d(p.Inception), p.BenchmarkMethod})
-	if err := put("portfolios.csv", []string{"portfolio_id", "portfolio_name", "strategy", "inception_date", "benchmark_method"}, rows); err != nil {
+	rows = append(rows, []string{p.ID, p.Name, p.Strategy, p.Inception, p.BenchmarkMethod})
+	if err := put("portfolios.csv", store.Header(store.KindPortfolios), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
 	for _, s := range in.Securities {
 		rows = append(rows, []string{s.ID, s.Name, s.Sector, s.Currency, f(s.SharesOutstanding)})
 	}
-	if err := put("securities.csv", []string{"security_id", "security_name", "sector", "currency", "shares_outstanding"}, rows); err != nil {
+	if err := put("securities.csv", store.Header(store.KindSecurities), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
@@ -103,7 +80,7 @@ func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*Export
 		rows = append(rows, []string{a.SecurityID, d(a.Effective), f(a.AnnualDividend), strconv.Itoa(a.Frequency),
 			f(a.Growth), opt(a.Beta), opt(a.DiscountRate), strings.Join(st, ";")})
 	}
-	if err := put("assumptions.csv", []string{"security_id", "effective_date", "annual_dividend", "frequency", "growth", "beta", "discount_rate", "stages"}, rows); err != nil {
+	if err := put("assumptions.csv", store.Header(store.KindAssumptions), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
@@ -113,7 +90,7 @@ func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*Export
 		}
 	}
 	sort.SliceStable(rows, func(a, b int) bool { return rows[a][0] < rows[b][0] })
-	if err := put("prices.csv", []string{"date", "security_id", "close", "dividend", "split_ratio"}, rows); err != nil {
+	if err := put("prices.csv", store.Header(store.KindPrices), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
@@ -122,14 +99,14 @@ func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*Export
 			rows = append(rows, []string{d(y.Date), strconv.Itoa(y.Tenors[i]), f(y.Yields[i])})
 		}
 	}
-	if err := put("yields.csv", []string{"date", "tenor_months", "yield"}, rows); err != nil {
+	if err := put("yields.csv", store.Header(store.KindYields), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
 	for _, v := range in.Premiums {
 		rows = append(rows, []string{d(v.Date), f(v.Value)})
 	}
-	if err := put("premiums.csv", []string{"date", "equity_risk_premium"}, rows); err != nil {
+	if err := put("premiums.csv", store.Header(store.KindPremiums), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
@@ -139,14 +116,14 @@ func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*Export
 		}
 		rows = append(rows, []string{d(s.AsOf), p.ID, "CASH", f(s.Cash), "1"})
 	}
-	if err := put("holdings.csv", []string{"as_of", "portfolio_id", "security_id", "quantity", "price"}, rows); err != nil {
+	if err := put("holdings.csv", store.Header(store.KindHoldings), rows); err != nil {
 		return nil, err
 	}
 	rows = nil
 	for _, v := range in.Flows {
 		rows = append(rows, []string{d(v.Date), p.ID, f(v.Value)})
 	}
-	if err := put("flows.csv", []string{"date", "portfolio_id", "amount"}, rows); err != nil {
+	if err := put("flows.csv", store.Header(store.KindFlows), rows); err != nil {
 		return nil, err
 	}
 	files["results.json"] = run.ResultsJSON
@@ -170,7 +147,7 @@ func Export(ctx context.Context, db *store.DB, runID int64, dir string) (*Export
 		if err := writeFileAtomic(filepath.Join(dir, n), files[n], 0o644); err != nil {
 			return nil, err
 		}
-		fmt.Fprintf(&manifest, "%s  %s\n", sha256Hex(files[n]), n)
+		fmt.Fprintf(&manifest, "%s  %s\n", SHA256Hex(files[n]), n)
 	}
 	if err := writeFileAtomic(filepath.Join(dir, "MANIFEST.sha256"), []byte(manifest.String()), 0o644); err != nil {
 		return nil, err

@@ -23,11 +23,12 @@ type market struct {
 	yields     []pack.YieldCurve
 	premiums   []pack.DatedValue
 	assumption []pack.Assumption
-	hash       string // sha256 of the canonical JSON of the fields above
+	hash       string // marketHash: sha256 of the canonical JSON of the fields above
 }
 
 // loadMarket reads everything up to asOf that is not specific to one
-// portfolio.
+// portfolio. db is a view at the run's ledger mark (store.DB.At), as is
+// gather's, so a run and its verification read the same rows.
 func loadMarket(ctx context.Context, db *store.DB, asOf time.Time) (*market, error) {
 	m := &market{asOf: asOf}
 	secs, err := db.Securities(ctx)
@@ -42,20 +43,7 @@ func loadMarket(ctx context.Context, db *store.DB, asOf time.Time) (*market, err
 	if err != nil {
 		return nil, err
 	}
-	idx := map[string]int{}
-	for _, p := range prices {
-		i, ok := idx[p.SecurityID]
-		if !ok {
-			i = len(m.prices)
-			idx[p.SecurityID] = i
-			m.prices = append(m.prices, pack.PriceSeries{SecurityID: p.SecurityID})
-		}
-		ps := &m.prices[i]
-		ps.Dates = append(ps.Dates, p.Date)
-		ps.Close = append(ps.Close, p.Close)
-		ps.Dividend = append(ps.Dividend, p.Dividend)
-		ps.Split = append(ps.Split, p.SplitRatio)
-	}
+	m.prices = splitPrices(prices)
 	sort.Slice(m.prices, func(a, b int) bool { return m.prices[a].SecurityID < m.prices[b].SecurityID })
 	ys, err := db.Yields(ctx, time.Time{}, asOf)
 	if err != nil {
@@ -107,15 +95,52 @@ func loadMarket(ctx context.Context, db *store.DB, asOf time.Time) (*market, err
 		}
 		return x.Effective.Before(y.Effective)
 	})
-	h := sha256.New()
-	enc := json.NewEncoder(h)
-	for _, v := range []any{m.securities, m.prices, m.yields, m.premiums, m.assumption} {
-		if err := enc.Encode(v); err != nil {
-			return nil, err
-		}
+	if m.hash, err = marketHash(m); err != nil {
+		return nil, err
 	}
-	m.hash = hex.EncodeToString(h.Sum(nil))
 	return m, nil
+}
+
+// splitPrices turns price rows (by date, then security) into one series
+// per security, in order of first appearance. The rows are counted first
+// so that each column is one exactly sized array shared by the series (a
+// million rows for a large store, where growing slices by appending held
+// up to twice the memory at the peak of a pack run).
+func splitPrices(prices []store.Price) []pack.PriceSeries {
+	idx := map[string]int{}
+	var count []int
+	for _, p := range prices {
+		i, ok := idx[p.SecurityID]
+		if !ok {
+			i = len(count)
+			idx[p.SecurityID] = i
+			count = append(count, 0)
+		}
+		count[i]++
+	}
+	n := len(prices)
+	dates, closes, divs, splits := make([]time.Time, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	out := make([]pack.PriceSeries, len(count))
+	at := 0
+	for id, i := range idx {
+		out[i].SecurityID = id
+	}
+	for i, c := range count {
+		// Full slice expressions: appending to one series never writes
+		// into the next.
+		ps := &out[i]
+		ps.Dates, ps.Close = dates[at:at:at+c], closes[at:at:at+c]
+		ps.Dividend, ps.Split = divs[at:at:at+c], splits[at:at:at+c]
+		at += c
+	}
+	for _, p := range prices {
+		ps := &out[idx[p.SecurityID]]
+		ps.Dates = append(ps.Dates, p.Date)
+		ps.Close = append(ps.Close, p.Close)
+		ps.Dividend = append(ps.Dividend, p.Dividend)
+		ps.Split = append(ps.Split, p.SplitRatio)
+	}
+	return out
 }
 
 // gather builds one portfolio's inputs on top of the shared market data.

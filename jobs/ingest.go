@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"syscall"
 
 	"plumbline/store"
 )
@@ -77,14 +78,14 @@ func move(from, to string) error {
 	if err == nil {
 		return nil
 	}
-	var le *os.LinkError
-	if !errors.As(err, &le) {
+	// Only a rename across file systems (EXDEV) falls back to a copy;
+	// any other failure (permissions, a missing folder) is the answer.
+	if !errors.Is(err, syscall.EXDEV) {
 		return err
 	}
-	// Rename fails across file systems (EXDEV): copy, then remove.
 	in, oerr := os.Open(from)
 	if oerr != nil {
-		return err
+		return oerr
 	}
 	defer in.Close()
 	out, cerr := os.OpenFile(to, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o640)

@@ -173,31 +173,3 @@ func loadPassword(m config.Mail, getenv func(string) string) (secret, error) {
 	}
 	return "", fmt.Errorf("mail: auth %q needs password_env or password_file", m.Auth)
 }
-
-// writeFileAtomic writes data to a hidden temporary file beside name,
-// syncs it and renames it over name, so a reader sees the whole file or
-// none of it.
-func writeFileAtomic(name string, data []byte, perm os.FileMode) error {
-	dir, base := filepath.Split(name)
-	tmp, err := os.CreateTemp(dir, "."+base+".tmp-*")
-	if err != nil {
-		return err
-	}
-	defer os.Remove(tmp.Name()) // no-op after the rename
-	if _, err := tmp.Write(data); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Chmod(perm); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Sync(); err != nil {
-		tmp.Close()
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), name)
-}

@@ -9,6 +9,7 @@ import (
 	"log/slog"
 	"os"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"time"
 
@@ -92,18 +93,25 @@ func BuildPacks(ctx context.Context, db *store.DB, cfg *config.Config, opt PackO
 	if log == nil {
 		log = slog.New(slog.DiscardHandler)
 	}
-	asOf := opt.AsOf
-	if asOf.IsZero() {
-		var err error
-		if asOf, err = LatestCompleteDate(ctx, db); err != nil {
-			return nil, err
-		}
-	}
-	ports, err := selectPortfolios(ctx, db, opt.Portfolios)
+	// Every input is read at the ledger mark taken here, which the runs
+	// record: a file ingested meanwhile (the daemon's drop folder) is left
+	// for the next pack, and verify can read the same rows later.
+	mark, err := db.LedgerMark(ctx)
 	if err != nil {
 		return nil, err
 	}
-	secs, err := db.Securities(ctx)
+	in := db.At(mark)
+	asOf := opt.AsOf
+	if asOf.IsZero() {
+		if asOf, err = LatestCompleteDate(ctx, in); err != nil {
+			return nil, err
+		}
+	}
+	ports, err := selectPortfolios(ctx, in, opt.Portfolios)
+	if err != nil {
+		return nil, err
+	}
+	secs, err := in.Securities(ctx)
 	if err != nil {
 		return nil, err
 	}
@@ -131,21 +139,28 @@ func BuildPacks(ctx context.Context, db *store.DB, cfg *config.Config, opt PackO
 	if err != nil {
 		return nil, err
 	}
-	mark, err := db.LedgerMark(ctx)
+	m, err := loadMarket(ctx, in, asOf)
 	if err != nil {
 		return nil, err
 	}
-	m, err := loadMarket(ctx, db, asOf)
-	if err != nil {
-		return nil, err
-	}
+	// Portfolios compute concurrently (they only read m, which is shared,
+	// and their own rows) and are stored one at a time in their order.
 	var out []PackResult
 	var errs []error
-	for i, p := range ports {
-		if err := ctx.Err(); err != nil {
-			return out, err
+	type computed struct {
+		c   *computedRun
+		err error
+	}
+	err = inOrder(ctx, len(ports), runtime.GOMAXPROCS(0), func(ctx context.Context, i int) computed {
+		c, err := computeOne(ctx, db, in, cfg, m, ports[i], params, cfgJSON, cfgHash, opt)
+		return computed{c, err}
+	}, func(i int, r computed) {
+		p := ports[i]
+		var res *PackResult
+		err := r.err
+		if err == nil {
+			res, err = storeOne(ctx, db, cfg, r.c, now, opt)
 		}
-		res, err := buildOne(ctx, db, cfg, m, p, params, cfgJSON, cfgHash, mark, now, opt)
 		if err != nil {
 			log.Error("pack failed", "portfolio", p.ID, "as_of", asOf.Format(time.DateOnly), "err", err)
 			errs = append(errs, fmt.Errorf("portfolio %s: %w", p.ID, err))
@@ -156,6 +171,9 @@ func BuildPacks(ctx context.Context, db *store.DB, cfg *config.Config, opt PackO
 		if opt.Progress != nil {
 			opt.Progress(i+1, len(ports), p.ID)
 		}
+	})
+	if err != nil {
+		return out, err
 	}
 	return out, errors.Join(errs...)
 }
@@ -187,30 +205,36 @@ func selectPortfolios(ctx context.Context, db *store.DB, ids []string) ([]store.
 }
 
 // history returns the headline metrics of the portfolio's earlier runs as
-// they stood before run beforeID (0: now).
+// they stood before run beforeID (0: now), from the headlines stored with
+// each run (the values pack.Headline gave when it was saved).
 func history(ctx context.Context, db *store.DB, portfolio string, asOf time.Time, beforeID int64) ([]pack.HistoryPoint, error) {
-	runs, err := db.PriorRuns(ctx, portfolio, asOf, beforeID)
+	hs, err := db.PriorHeadlines(ctx, portfolio, asOf, beforeID)
 	if err != nil {
 		return nil, err
 	}
-	out := make([]pack.HistoryPoint, 0, len(runs))
-	for _, r := range runs {
-		var doc pack.Document
-		if err := json.Unmarshal(r.ResultsJSON, &doc); err != nil {
-			return nil, fmt.Errorf("run %d: results: %w", r.ID, err)
-		}
-		out = append(out, pack.HistoryPoint{AsOf: doc.AsOf, Metrics: pack.Headline(&doc)})
+	out := make([]pack.HistoryPoint, len(hs))
+	for i, h := range hs {
+		out[i] = pack.HistoryPoint{AsOf: h.AsOf.Format(time.DateOnly), Metrics: h.Metrics}
 	}
 	return out, nil
 }
 
-func buildOne(ctx context.Context, db *store.DB, cfg *config.Config, m *market, p store.Portfolio,
-	params pack.Params, cfgJSON []byte, cfgHash string, mark int64, now func() time.Time, opt PackOptions) (*PackResult, error) {
+// computedRun is one portfolio's pack, computed and not yet stored.
+type computedRun struct {
+	doc *pack.Document
+	nr  store.NewRun // CreatedAt is set when it is stored
+}
+
+// computeOne reads the portfolio's inputs from view (db at the pack's
+// ledger mark) and its earlier runs from db, and computes its pack. It
+// only reads, so portfolios may compute concurrently.
+func computeOne(ctx context.Context, db, view *store.DB, cfg *config.Config, m *market, p store.Portfolio,
+	params pack.Params, cfgJSON []byte, cfgHash string, opt PackOptions) (*computedRun, error) {
 	hist, err := history(ctx, db, p.ID, m.asOf, 0)
 	if err != nil {
 		return nil, err
 	}
-	in, err := gather(ctx, db, m, p, cfg.BaseCurrency, hist)
+	in, err := gather(ctx, view, m, p, cfg.BaseCurrency, hist)
 	if err != nil {
 		return nil, err
 	}
@@ -230,12 +254,19 @@ func buildOne(ctx context.Context, db *store.DB, cfg *config.Config, m *market, 
 	for _, mt := range pack.Metrics(doc) {
 		metrics = append(metrics, store.MetricRow{Scope: mt.Scope, Key: mt.Key, Metric: mt.Name, Value: mt.Value})
 	}
-	created := now().UTC().Truncate(time.Second)
-	nr := store.NewRun{
-		PortfolioID: p.ID, AsOf: m.asOf, CreatedAt: created, Reason: opt.Reason,
+	return &computedRun{doc: doc, nr: store.NewRun{
+		PortfolioID: p.ID, AsOf: m.asOf, Reason: opt.Reason,
 		ProgramVersion: opt.Version, ConfigJSON: cfgJSON, ConfigHash: cfgHash, InputHash: ih,
-		LedgerMark: mark, ResultsSchema: pack.SchemaVersion, ResultsJSON: results, Metrics: metrics,
-	}
+		LedgerMark: view.Mark(), ResultsSchema: pack.SchemaVersion, ResultsJSON: results, Metrics: metrics,
+		Headline: pack.Headline(doc),
+	}}, nil
+}
+
+// storeOne stores a computed pack as a run, rendered and queued as opt
+// asks, in one transaction, and writes its PDF to opt.OutDir.
+func storeOne(ctx context.Context, db *store.DB, cfg *config.Config, c *computedRun, now func() time.Time, opt PackOptions) (*PackResult, error) {
+	nr, doc := c.nr, c.doc
+	nr.CreatedAt = now().UTC().Truncate(time.Second)
 	var complete func(*store.Run) (*store.Completion, error)
 	if opt.Render || opt.Queue {
 		complete = func(r *store.Run) (*store.Completion, error) {
@@ -260,7 +291,7 @@ func buildOne(ctx context.Context, db *store.DB, cfg *config.Config, m *market, 
 	if err != nil {
 		return nil, err
 	}
-	res := &PackResult{Portfolio: p.ID, AsOf: m.asOf.Format(time.DateOnly), RunID: run.ID,
+	res := &PackResult{Portfolio: nr.PortfolioID, AsOf: nr.AsOf.Format(time.DateOnly), RunID: run.ID,
 		Revision: run.Revision, PDFSHA256: run.PDFSHA256, Document: doc}
 	if opt.OutDir != "" && run.PDFSHA256 != "" {
 		path, err := WritePDF(ctx, db, run.ID, opt.OutDir)

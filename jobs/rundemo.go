@@ -123,7 +123,7 @@ func RunDemo(ctx context.Context, opt DemoOptions) (*DemoResult, error) {
 		}
 	}
 	say("delivering the latest packs to %s", cfg.Mail.Folder)
-	res.Mail, err = DeliverNow(ctx, db, cfg, opt.Logger, now)
+	res.Mail, err = DeliverNow(ctx, db, cfg, opt.Logger)
 	if err != nil {
 		return nil, err
 	}

@@ -6,8 +6,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"time"
 
-	"plumbline/jobs/config"
 	"plumbline/risk/pack"
 	"plumbline/store"
 )
@@ -40,47 +40,26 @@ func (v *Verification) Identical() bool {
 	return v.InputsMatch && v.ResultsMatch && len(v.Differences) == 0 && (v.PDFMatch == nil || *v.PDFMatch)
 }
 
-// Verify recomputes a run from the inputs now in the store with the
-// configuration stored with the run, and compares the input hash, every
-// long-form metric and the full results document, and the PDF when the
-// run has one. Metrics are compared exactly: the computation is
-// deterministic, so any difference means different inputs or code.
+// Verify recomputes a run from the inputs the store held when the run was
+// made (the rows of ledger entries up to the run's ledger mark, so a later
+// correction does not count as a difference) with the configuration
+// stored with the run, and compares the input hash, every long-form
+// metric and the full results document, and the PDF when the run has one.
+// Metrics are compared exactly: the computation is deterministic, so any
+// difference means changed input rows or different code.
 func Verify(ctx context.Context, db *store.DB, runID int64) (*Verification, error) {
-	run, err := db.GetRun(ctx, runID)
+	sr, err := loadStoredRun(ctx, db, runID)
 	if err != nil {
 		return nil, err
 	}
-	cfg, err := config.FromCanonical(run.ConfigJSON)
-	if err != nil {
-		return nil, err
-	}
+	run, cfg, ih := sr.run, sr.cfg, sr.inputHash
 	params, err := Params(cfg)
 	if err != nil {
 		return nil, fmt.Errorf("run %d: stored configuration: %w", runID, err)
 	}
-	ports, err := selectPortfolios(ctx, db, []string{run.PortfolioID})
-	if err != nil {
-		return nil, err
-	}
-	m, err := loadMarket(ctx, db, run.AsOf)
-	if err != nil {
-		return nil, err
-	}
-	hist, err := history(ctx, db, run.PortfolioID, run.AsOf, run.ID)
-	if err != nil {
-		return nil, err
-	}
-	in, err := gather(ctx, db, m, ports[0], cfg.BaseCurrency, hist)
-	if err != nil {
-		return nil, err
-	}
-	ih, err := inputHash(m, in)
-	if err != nil {
-		return nil, err
-	}
-	v := &Verification{RunID: run.ID, Portfolio: run.PortfolioID, AsOf: run.AsOf.Format("2006-01-02"),
+	v := &Verification{RunID: run.ID, Portfolio: run.PortfolioID, AsOf: run.AsOf.Format(time.DateOnly),
 		StoredInputHash: run.InputHash, InputHash: ih, InputsMatch: ih == run.InputHash}
-	doc, err := pack.Compute(in, params)
+	doc, err := pack.Compute(sr.inputs, params)
 	if err != nil {
 		return nil, fmt.Errorf("run %d: recompute: %w", runID, err)
 	}
@@ -140,7 +119,7 @@ func Verify(ctx context.Context, db *store.DB, runID int64) (*Verification, erro
 		if err != nil {
 			return nil, err
 		}
-		ok := sha256Hex(pdf) == run.PDFSHA256
+		ok := SHA256Hex(pdf) == run.PDFSHA256
 		v.PDFMatch = &ok
 	}
 	return v, nil

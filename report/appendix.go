@@ -23,7 +23,7 @@ func (b *builder) appendix() error {
 	} else {
 		var rows []tableRow
 		for _, e := range d.Excluded {
-			rows = append(rows, tableRow{cells: []string{e.ID, e.Reason, Pct(e.ValueShare)}})
+			rows = append(rows, tableRow{cells: []string{e.ID, tidyText(e.Reason), Pct(e.ValueShare)}})
 		}
 		b.table([]column{{"Holding", 4, false, false}, {"Reason", 16, false, true}, {"Value share", 4, true, false}}, rows)
 	}

@@ -4,7 +4,10 @@ import (
 	"fmt"
 	"strconv"
 
+	"github.com/johnfercher/maroto/v2/pkg/components/col"
 	"github.com/johnfercher/maroto/v2/pkg/components/line"
+	"github.com/johnfercher/maroto/v2/pkg/components/row"
+	"github.com/johnfercher/maroto/v2/pkg/consts/align"
 	"github.com/johnfercher/maroto/v2/pkg/consts/fontstyle"
 	"github.com/johnfercher/maroto/v2/pkg/props"
 )
@@ -44,14 +47,24 @@ func (b *builder) cover() error {
 
 	b.space(10)
 	b.subheading("Contents", 20)
-	var items []pair
-	n := 0
-	for _, s := range b.sectionsAfterCover() {
-		n++
-		items = append(items, pair{label: strconv.Itoa(n), value: b.text(s, "title")})
-	}
-	for _, it := range items {
-		b.add(textRow(5, it.label+"   "+it.value, props.Text{Size: sizeBody, Color: &colInk, Left: 2}))
+	// Page numbers are filled in when the pages are drawn, once every
+	// section has been laid out.
+	for i, s := range b.sectionsAfterCover() {
+		p := props.Text{Size: sizeBody, Color: &colInk}
+		num := p
+		num.Align, num.Right = align.Right, 2
+		pg := num
+		pg.Color = &colMuted
+		b.add(row.New(5).Add(
+			textCol(1, strconv.Itoa(i+1), num),
+			textCol(12, b.text(s, "title"), p),
+			col.New(2).Add(&lateText{value: func() string {
+				if n := b.pageOf[s]; n > 0 {
+					return "page " + strconv.Itoa(n)
+				}
+				return ""
+			}, prop: pg}),
+		))
 	}
 	b.space(14)
 	b.note(b.text(SectionCover, "note"))

@@ -323,7 +323,7 @@ func fixtureDoc(nHold int) *pack.Document {
 				VaR: v * m.f, ES: es * m.f, VaRAmount: v * m.f * total, ESAmount: es * m.f * total})
 		}
 	}
-	h, hes := d.VaR[6], d.VaR[3] // historical 99% and 97.5%
+	h := d.VaR[6] // historical 99%
 	d.VaR = append(d.VaR, pack.VaRFigure{Method: "historical", Confidence: 0.99, HorizonDays: 10,
 		VaR: h.VaR * math.Sqrt(10), ES: h.ES * math.Sqrt(10), VaRAmount: h.VaRAmount * math.Sqrt(10), ESAmount: h.ESAmount * math.Sqrt(10)})
 	d.Backtest = &pack.Backtest{Days: 250, Confidence: 0.99, Exceptions: 4, Expected: 2.5, KupiecLR: 0.7758, PValue: 0.3784, Zone: "green"}
@@ -383,17 +383,14 @@ func fixtureDoc(nHold int) *pack.Document {
 		{Name: "Single name cap", Metric: "max_single_name_weight", Value: f64(d.Concentration.MaxSingleName), Status: "ok", Level: f64(0.15), Headroom: f64(0.15 - d.Concentration.MaxSingleName)},
 		{Name: "Sector cap", Metric: "max_sector_weight", Value: f64(0.237), Status: "warning", Level: f64(0.25), Headroom: f64(0.013)},
 		{Name: "Daily VaR budget", Metric: "var_99_1d", Value: f64(h.VaR), Status: "breach", Level: f64(0.015), Headroom: f64(0.015 - h.VaR)},
-		{Name: "Duration band", Metric: mDurModified, Value: f64(modDur), Status: "ok", Level: f64(30), Headroom: f64(30 - modDur)},
+		{Name: "Duration band", Metric: pack.MetricDurModified, Value: f64(modDur), Status: "ok", Level: f64(30), Headroom: f64(30 - modDur)},
 		{Name: "Cash floor", Metric: "cash_weight", Value: f64(cash / total), Status: "ok", Level: f64(0.01), Headroom: f64(cash/total - 0.01)},
-		{Name: "Tracking error ceiling", Metric: mTracking, Status: "no_data"},
+		{Name: "Tracking error ceiling", Metric: pack.MetricTrackingError, Status: "no_data"},
 	}
 
-	// History: 26 weekly runs, the last being this one.
-	cur := map[string]float64{
-		mValue: total, mReturnWeek: week - 1, volMetric(63): *s.Volatility[1].Discrete,
-		"var_99_1d": h.VaR, "es_975_1d": hes.ES, mDurModified: modDur,
-		mDurEmp: s.Empirical.Value, mConvexity: conv, mGrowthDur: gDur, mBeta: beta,
-	}
+	// History: 26 weekly runs, the last being this one, of the metrics
+	// pack follows, under pack's own names.
+	cur := pack.Headline(d)
 	names := make([]string, 0, len(cur))
 	for m := range cur {
 		names = append(names, m)
@@ -409,22 +406,22 @@ func fixtureDoc(nHold int) *pack.Document {
 		vals := make([]float64, nh)
 		vals[nh-1] = c
 		step := 0.01 * math.Abs(c)
-		if m == mReturnWeek {
+		if m == pack.MetricReturnWeek {
 			step = 0.01
 		}
-		if m == mDurModified {
+		if m == pack.MetricDurModified {
 			vals[nh-2] = c - 1.9 // the flagged jump
 		} else {
 			vals[nh-2] = c - step*rng.NormFloat64()
 		}
 		for i := nh - 3; i >= 0; i-- {
-			if m == mReturnWeek {
+			if m == pack.MetricReturnWeek {
 				vals[i] = 0.002 + 0.012*rng.NormFloat64()
 				continue
 			}
 			vals[i] = vals[i+1] - step*rng.NormFloat64()
 		}
-		if m == mDurModified {
+		if m == pack.MetricDurModified {
 			for i := nh - 3; i >= 0; i-- {
 				vals[i] = vals[i+1] - 0.3*rng.NormFloat64()
 			}
@@ -438,7 +435,7 @@ func fixtureDoc(nHold int) *pack.Document {
 			past = append(past, vals[i]-vals[i-1])
 		}
 		z := (c - prev) / sampleStd(past)
-		d.Drift = append(d.Drift, pack.DriftItem{Metric: m, Value: c, Previous: f64(prev), Change: f64(c - prev), Z: f64(z), History: len(past), Flagged: m == mDurModified})
+		d.Drift = append(d.Drift, pack.DriftItem{Metric: m, Value: c, Previous: f64(prev), Change: f64(c - prev), Z: f64(z), History: len(past), Flagged: m == pack.MetricDurModified})
 	}
 	d.History = hist
 

@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 )
@@ -164,6 +165,23 @@ func group(s string) string {
 		b.WriteString(intPart[i : i+3])
 	}
 	return sign + b.String() + frac
+}
+
+// longDecimal matches a number printed with more digits than a reader
+// needs, such as -0.0020000000000000018 in an error message.
+var longDecimal = regexp.MustCompile(`-?\d+\.\d{5,}(e[-+]?\d+)?`)
+
+// tidyText shortens the long numbers of a message written for logs (four
+// significant digits) so it reads in a table: "k - g = -0.0020000000000000018"
+// becomes "k - g = -0.002".
+func tidyText(s string) string {
+	return longDecimal.ReplaceAllStringFunc(s, func(m string) string {
+		x, err := strconv.ParseFloat(m, 64)
+		if err != nil {
+			return m
+		}
+		return strconv.FormatFloat(x, 'g', 4, 64)
+	})
 }
 
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

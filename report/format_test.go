@@ -82,6 +82,9 @@ func TestMetricFormatting(t *testing.T) {
 		"var_99_1d":          "VaR 99%, 1 day",
 		"es_975_1d":          "ES 97.5%, 1 day",
 		"var_95_10d":         "VaR 95%, 10 days",
+		// pack.LossMetric names other methods between kind and level.
+		"var_normal_99_1d":         "VaR 99%, 1 day (normal)",
+		"es_cornish_fisher_975_1d": "ES 97.5%, 1 day (Cornish-Fisher)",
 	} {
 		if got := metricOf(name).label; got != want {
 			t.Errorf("label(%s) = %q, want %q", name, got, want)
@@ -89,5 +92,21 @@ func TestMetricFormatting(t *testing.T) {
 	}
 	if got := humanize("stale_price"); got != "Stale price" {
 		t.Errorf("humanize = %q", got)
+	}
+}
+
+// Long decimals of messages written for logs are cut to four significant
+// digits (the precision of every rate the pack prints, common practice);
+// dates, identifiers and short figures pass unchanged.
+func TestTidyText(t *testing.T) {
+	for _, tt := range []struct{ in, want string }{
+		{"terminal k - g = -0.0020000000000000018", "terminal k - g = -0.002"},
+		{"ratio 1.23456789 is not finite", "ratio 1.235 is not finite"},
+		{"error 1.2345678e-05 left", "error 1.235e-05 left"},
+		{"dated 2026-11-20, weight 0.0604, ID QRGN", "dated 2026-11-20, weight 0.0604, ID QRGN"},
+	} {
+		if got := tidyText(tt.in); got != tt.want {
+			t.Errorf("tidyText(%q) = %q, want %q", tt.in, got, tt.want)
+		}
 	}
 }

@@ -1,10 +1,13 @@
 package report
 
 import (
+	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
@@ -12,58 +15,68 @@ import (
 	"plumbline/risk/pack"
 )
 
-// historyOrder is the order of the history charts; other metrics follow
-// by name.
-var historyOrder = []string{
-	mValue, mReturnWeek, mReturnYTD, mEWMA,
-	"var_99_1d", "es_975_1d", "es_99_1d", mDurModified, mDurEmp,
-	mConvexity, mGrowthDur, mBeta, mTracking,
+// metricOrder is the order of headline metrics in the history charts and
+// tables, that of the summary; "volatility", "var" and "es" stand for
+// their families. Other metrics follow by name.
+var metricOrder = []string{
+	pack.MetricValue, pack.MetricReturnWeek, pack.MetricReturnMTD, pack.MetricReturnQTD,
+	pack.MetricReturnYTD, pack.MetricReturnSI, "volatility", pack.MetricEWMA, "var", "es",
+	pack.MetricDurModified, pack.MetricDurMacaulay, pack.MetricDurEmpirical, pack.MetricConvexity,
+	pack.MetricGrowthDuration, pack.MetricBeta, pack.MetricTrackingError, pack.MetricMaxDrawdown,
+	pack.MetricHHI, pack.MetricMaxSingleName,
 }
 
 const historyChartH = 50.0
 
+// metricRank places a metric name in metricOrder: its rank, and within a
+// family the window (volatility) or the name.
+func metricRank(m string) (int, int) {
+	family := m
+	win := 0
+	if w, ok := strings.CutPrefix(m, "volatility_ann_"); ok {
+		if n, err := strconv.Atoi(strings.TrimSuffix(w, "d")); err == nil {
+			family, win = "volatility", n
+		}
+	} else if strings.HasPrefix(m, "var_") {
+		family = "var"
+	} else if strings.HasPrefix(m, "es_") {
+		family = "es"
+	}
+	if i := slices.Index(metricOrder, family); i >= 0 {
+		return i, win
+	}
+	return len(metricOrder), 0
+}
+
+// sortMetrics orders metric names as metricOrder says.
+func sortMetrics(names []string) {
+	sort.Slice(names, func(i, j int) bool {
+		ri, wi := metricRank(names[i])
+		rj, wj := metricRank(names[j])
+		if ri != rj {
+			return ri < rj
+		}
+		if wi != wj {
+			return wi < wj
+		}
+		return names[i] < names[j]
+	})
+}
+
 // historyMetrics lists the metrics found in the history, in chart order.
 func historyMetrics(hist []pack.HistoryPoint) []string {
 	seen := map[string]bool{}
+	var out []string
 	for _, h := range hist {
 		for k := range h.Metrics {
-			seen[k] = true
+			if !seen[k] {
+				seen[k] = true
+				out = append(out, k)
+			}
 		}
 	}
-	var out []string
-	rank := map[string]int{}
-	for i, m := range historyOrder {
-		rank[m] = i
-	}
-	for k := range seen {
-		out = append(out, k)
-	}
-	sort.Slice(out, func(i, j int) bool {
-		ri, oki := rank[out[i]]
-		rj, okj := rank[out[j]]
-		// Volatilities sort after the week's return, by window.
-		if strings.HasPrefix(out[i], "volatility_ann_") && !oki {
-			ri, oki = rank[mReturnYTD], true
-		}
-		if strings.HasPrefix(out[j], "volatility_ann_") && !okj {
-			rj, okj = rank[mReturnYTD], true
-		}
-		switch {
-		case oki && okj && ri != rj:
-			return ri < rj
-		case oki != okj:
-			return oki
-		}
-		return volOrder(out[i]) < volOrder(out[j]) || (volOrder(out[i]) == volOrder(out[j]) && out[i] < out[j])
-	})
+	sortMetrics(out)
 	return out
-}
-
-// volOrder is the window of a volatility metric, for sorting, else 0.
-func volOrder(m string) int {
-	s := strings.TrimSuffix(strings.TrimPrefix(m, "volatility_ann_"), "d")
-	n, _ := strconv.Atoi(s)
-	return n
 }
 
 // history charts the headline metrics across the stored runs and lists
@@ -115,12 +128,9 @@ func (b *builder) history() error {
 			names = append(names, it.Metric)
 			byName[it.Metric] = it
 		}
-		hist := []pack.HistoryPoint{{Metrics: map[string]float64{}}}
-		for _, n := range names {
-			hist[0].Metrics[n] = 0
-		}
+		sortMetrics(names)
 		var rows []tableRow
-		for _, name := range historyMetrics(hist) {
+		for _, name := range names {
 			it := byName[name]
 			mi := metricOf(it.Metric)
 			f := func(x float64) string { return mi.format(x, b.ccy) }
@@ -137,7 +147,7 @@ func (b *builder) history() error {
 		}
 		b.table([]column{
 			{"Figure", 6, false, false}, {"This run", 4, true, false}, {"Previous run", 4, true, false}, {"Change", 3, true, false},
-			{"z", 2, true, false}, {"Past changes", 3, true, false}, {"Flag", 2, false, false},
+			{"z-score", 2, true, false}, {"Past changes", 3, true, false}, {"Flag", 2, false, false},
 		}, rows)
 	}
 	return b.err
@@ -191,8 +201,26 @@ func (b *builder) historyChart(xs []float64, metric string, flagged bool, w floa
 		last.GlyphStyle.Radius = vg.Points(2.6)
 		last.GlyphStyle.Shape = draw.CircleGlyph{}
 		p.Add(sc, last)
-		p.Legend.Add("This run", last)
-		legendRoom(p, 1)
+		// The intro says what the large last point is: a legend here
+		// would sit on the line wherever the series starts high.
+		minSpan(p, pts, 0.05)
 	}
 	return b.png(p, w, historyChartH)
+}
+
+// minSpan widens the y axis, about the data's middle, to at least frac of
+// the data's largest absolute value, so that a nearly flat series (a VaR
+// that moved by a basis point) is not drawn as a cliff. The axis always
+// holds every point.
+func minSpan(p *plot.Plot, pts plotter.XYs, frac float64) {
+	lo, hi, big := math.Inf(1), math.Inf(-1), 0.0
+	for _, q := range pts {
+		lo, hi, big = min(lo, q.Y), max(hi, q.Y), max(big, math.Abs(q.Y))
+	}
+	want := frac * big
+	if !(hi >= lo) || hi-lo >= want || want == 0 {
+		return
+	}
+	mid := (lo + hi) / 2
+	p.Y.Min, p.Y.Max = mid-want/2, mid+want/2
 }

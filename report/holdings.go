@@ -75,8 +75,8 @@ func (b *builder) holdings() error {
 		}})
 	}
 	b.table([]column{
-		{"ID", 2, false, false}, {"Name", 5, false, false}, {"Sector", 3, false, false}, {"Quantity", 2, true, false},
-		{"Price (" + b.ccy + ")", 2, true, false}, {"Price date", 3, true, false}, {"Value (" + b.ccy + ")", 3, true, false},
+		{"ID", 2, false, false}, {"Name", 5, false, false}, {"Sector", 4, false, false}, {"Quantity", 2, true, false},
+		{"Price (" + b.ccy + ")", 2, true, false}, {"Price date", 3, true, false}, {"Value (" + b.ccy + ")", 2, true, false},
 		{"Weight", 2, true, false}, {"Model", 2, false, false},
 	}, rows)
 	return b.err

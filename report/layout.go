@@ -1,6 +1,7 @@
 package report
 
 import (
+	"reflect"
 	"strings"
 
 	"github.com/johnfercher/go-tree/node"
@@ -113,6 +114,22 @@ func (m *measurer) fit(s string, w, size float64, bold bool) string {
 	return ""
 }
 
+// fitLines shortens s at a word break, ending it with "...", until it
+// wraps onto at most n lines of width w.
+func (m *measurer) fitLines(s string, w, size float64, n int) string {
+	if m.lines(s, w, size, false) <= n {
+		return s
+	}
+	words := strings.Fields(s)
+	for k := len(words) - 1; k > 0; k-- {
+		t := strings.TrimRight(strings.Join(words[:k], " "), ",;:") + "..."
+		if m.lines(t, w, size, false) <= n {
+			return t
+		}
+	}
+	return m.fit(s, w, size, false)
+}
+
 // lines counts the lines s wraps onto at word breaks in width w, as
 // maroto wraps it.
 func (m *measurer) lines(s string, w, size float64, bold bool) int {
@@ -137,6 +154,39 @@ func (b *builder) add(rows ...core.Row) { b.m.AddRows(rows...) }
 
 // newPage starts a new page unless the current one is still empty.
 func (b *builder) newPage() { b.m.AddPages(page.New()) }
+
+// sectionPage starts a new page for a section and returns its number, or
+// 0 when it cannot tell.
+func (b *builder) sectionPage() int {
+	b.newPage()
+	n, ok := pagesClosed(b.m)
+	if !ok {
+		return 0
+	}
+	return n + 1
+}
+
+// pagesClosed returns the number of pages maroto has closed. maroto v2
+// has no public page count: GetStructure gives one but rebuilds the tree
+// of every page and closes the current one, which doubled the time of a
+// render. So the length of its page list is read by reflection (reading
+// an unexported field's length is allowed; nothing is written). Should an
+// upgrade of maroto rename the list, ok is false, the contents print
+// without page numbers and TestRenderContentsPages fails.
+func pagesClosed(m core.Maroto) (n int, ok bool) {
+	v := reflect.ValueOf(m)
+	if v.Kind() == reflect.Pointer {
+		v = v.Elem()
+	}
+	if v.Kind() != reflect.Struct {
+		return 0, false
+	}
+	f := v.FieldByName("pages")
+	if !f.IsValid() || f.Kind() != reflect.Slice {
+		return 0, false
+	}
+	return f.Len(), true
+}
 
 // ensure starts a new page when h millimetres do not fit on this one.
 func (b *builder) ensure(h float64) {
@@ -220,9 +270,9 @@ func (b *builder) tableOpt(cols []column, rows []tableRow, grouped bool) {
 		return
 	}
 	header := b.tableHeader(cols)
-	b.ensure(b.headerHeight(cols) + rowTable*float64(min(len(rows), 3)) + 1)
+	b.ensure(b.headerHeight(cols) + rowTable*float64(min(len(rows), keepRows)) + 1)
 	b.add(header)
-	zebra, group := true, ""
+	zebra, group, onPage := true, "", 0
 	for i, r := range rows {
 		if grouped {
 			if len(r.cells) > 0 && r.cells[0] != "" {
@@ -232,17 +282,33 @@ func (b *builder) tableOpt(cols []column, rows []tableRow, grouped bool) {
 		} else {
 			zebra = i%2 == 1
 		}
-		if !b.m.FitlnCurrentPage(b.lineHeight(cols, r)) {
+		brk := !b.m.FitlnCurrentPage(b.lineHeight(cols, r))
+		if !brk && len(rows)-i == keepRows && onPage >= keepRows {
+			// The last lines go over together rather than one alone.
+			tail := 0.0
+			for _, t := range rows[i:] {
+				tail += b.lineHeight(cols, t)
+			}
+			brk = !b.m.FitlnCurrentPage(tail)
+		}
+		if brk {
 			b.newPage()
 			b.add(b.tableHeader(cols))
+			onPage = 0
 			if grouped && len(r.cells) > 0 && r.cells[0] == "" && group != "" {
 				r.cells = append([]string{group + " (cont.)"}, r.cells[1:]...)
 			}
 		}
 		b.add(b.tableLine(cols, r, zebra))
+		onPage++
 	}
 	b.space(2)
 }
+
+// keepRows is the fewest table lines printed on a page under the header:
+// a table starts on a new page unless its first keepRows lines fit, and
+// its last keepRows lines are not split from one another.
+const keepRows = 3
 
 // tableHeader prints the column titles, wrapped onto as many lines as the
 // longest needs.
@@ -381,6 +447,29 @@ func (b *builder) chartRow(h float64, charts ...*chartJob) {
 	}
 	b.add(r)
 	b.space(2)
+}
+
+// lateText is a text whose value is known only once every page is laid
+// out, such as a page number in the contents. It prints in a row of fixed
+// height.
+type lateText struct {
+	value func() string
+	prop  props.Text
+	cfg   *entity.Config
+}
+
+func (t *lateText) SetConfig(c *entity.Config) { t.cfg = c }
+
+func (t *lateText) GetStructure() *node.Node[core.Structure] {
+	return node.New(core.Structure{Type: "late_text"})
+}
+
+func (t *lateText) GetHeight(_ core.Provider, cell *entity.Cell) float64 { return cell.Height }
+
+func (t *lateText) Render(provider core.Provider, cell *entity.Cell) {
+	c := text.New(enc(t.value()), t.prop)
+	c.SetConfig(t.cfg)
+	c.Render(provider, cell)
 }
 
 // chartImage is the maroto component of a chart drawn in the background.

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"plumbline/risk/limits"
+	"plumbline/risk/pack"
 )
 
 // unit says how a metric's value is printed.
@@ -26,68 +27,34 @@ type metricInfo struct {
 	dec   int // decimals for unitNumber
 }
 
-// Headline metric names, as found in Document.Drift and in the metrics
-// of Document.History. They follow the names of the limits package
-// (risk/limits.Metrics) where it has one; value and returns are added.
-const (
-	mValue       = "value"                  // market value incl. cash, currency
-	mReturnWeek  = "return_week"            // TWR, decimal
-	mReturnMTD   = "return_mtd"             // TWR month to date
-	mReturnQTD   = "return_qtd"             // TWR quarter to date
-	mReturnYTD   = "return_ytd"             // TWR year to date
-	mReturnSI    = "return_since_inception" // TWR since inception, cumulative
-	mEWMA        = "volatility_ewma_ann"    // decimal
-	mDurModified = "duration_modified"      // years
-	mDurEmp      = "duration_empirical"     // years
-	mConvexity   = "convexity"              // years squared
-	mGrowthDur   = "growth_duration"        // years
-	mBeta        = "beta"                   // ratio
-	mTracking    = "tracking_error_ann"     // decimal
-	mMaxDrawdown = "max_drawdown"           // negative decimal
-)
-
-// volMetric is the name of the annualised volatility over a window,
-// "volatility_ann_63d".
-func volMetric(windowDays int) string { return "volatility_ann_" + strconv.Itoa(windowDays) + "d" }
-
-// lossMetric is the name of a VaR or ES figure, "var_99_1d", "es_975_1d":
-// the confidence's digits after "0.".
-func lossMetric(kind string, confidence float64, horizonDays int) string {
-	c := strings.TrimPrefix(strconv.FormatFloat(confidence, 'f', -1, 64), "0.")
-	if len(c) == 1 {
-		c += "0"
-	}
-	return kind + "_" + c + "_" + strconv.Itoa(horizonDays) + "d"
-}
-
 // knownMetrics labels the headline metrics and the limit metrics.
 var knownMetrics = map[string]metricInfo{
-	mValue:                   {"Market value (incl. cash)", unitMoney, 0},
-	mReturnWeek:              {"Return, week", unitPct, 0},
-	mReturnMTD:               {"Return, month to date", unitPct, 0},
-	mReturnQTD:               {"Return, quarter to date", unitPct, 0},
-	mReturnYTD:               {"Return, year to date", unitPct, 0},
-	mReturnSI:                {"Return since inception", unitPct, 0},
-	mEWMA:                    {"EWMA volatility (ann.)", unitPct, 0},
-	mDurModified:             {"Modified duration", unitYears, 0},
-	mDurEmp:                  {"Empirical duration", unitYears, 0},
-	mConvexity:               {"Convexity", unitYears2, 0},
-	mGrowthDur:               {"Growth duration", unitYears, 0},
-	mBeta:                    {"Beta (CAPM)", unitNumber, 2},
-	mTracking:                {"Tracking error (ann.)", unitPct, 0},
-	mMaxDrawdown:             {"Maximum drawdown", unitPct, 0},
-	"duration_macaulay":      {"Macaulay duration", unitYears, 0},
-	"hhi":                    {"Concentration index (HHI)", unitNumber, 4},
-	"effective_n":            {"Effective number of names", unitNumber, 1},
-	"top5_weight":            {"Top five weight", unitPct, 0},
-	"max_single_name_weight": {"Largest single name", unitPct, 0},
-	"max_sector_weight":      {"Largest sector", unitPct, 0},
-	"cash_weight":            {"Cash weight", unitPct, 0},
-	"current_drawdown":       {"Current drawdown", unitPct, 0},
-	"growth_convexity":       {"Growth convexity", unitYears2, 0},
-	"benchmark_beta":         {"Beta to benchmark", unitNumber, 2},
-	"worst_window_loss":      {"Worst replayed window, loss", unitPct, 0},
-	"scenario_loss":          {"Scenario loss", unitPct, 0},
+	pack.MetricValue:          {"Market value (incl. cash)", unitMoney, 0},
+	pack.MetricReturnWeek:     {"Return, week", unitPct, 0},
+	pack.MetricReturnMTD:      {"Return, month to date", unitPct, 0},
+	pack.MetricReturnQTD:      {"Return, quarter to date", unitPct, 0},
+	pack.MetricReturnYTD:      {"Return, year to date", unitPct, 0},
+	pack.MetricReturnSI:       {"Return since inception", unitPct, 0},
+	pack.MetricEWMA:           {"EWMA volatility (ann.)", unitPct, 0},
+	pack.MetricDurModified:    {"Modified duration", unitYears, 0},
+	pack.MetricDurMacaulay:    {"Macaulay duration", unitYears, 0},
+	pack.MetricDurEmpirical:   {"Empirical duration", unitYears, 0},
+	pack.MetricConvexity:      {"Convexity", unitYears2, 0},
+	pack.MetricGrowthDuration: {"Growth duration", unitYears, 0},
+	pack.MetricBeta:           {"Beta (CAPM)", unitNumber, 2},
+	pack.MetricTrackingError:  {"Tracking error (ann.)", unitPct, 0},
+	pack.MetricMaxDrawdown:    {"Maximum drawdown since inception", unitPct, 0},
+	pack.MetricHHI:            {"Concentration index (HHI)", unitNumber, 4},
+	pack.MetricMaxSingleName:  {"Largest single name", unitPct, 0},
+	"effective_n":             {"Effective number of names", unitNumber, 1},
+	"top5_weight":             {"Top five weight", unitPct, 0},
+	"max_sector_weight":       {"Largest sector", unitPct, 0},
+	"cash_weight":             {"Cash weight", unitPct, 0},
+	"current_drawdown":        {"Current drawdown", unitPct, 0},
+	"growth_convexity":        {"Growth convexity", unitYears2, 0},
+	"benchmark_beta":          {"Beta to benchmark", unitNumber, 2},
+	"worst_window_loss":       {"Worst replayed window, loss", unitPct, 0},
+	"scenario_loss":           {"Scenario loss", unitPct, 0},
 }
 
 // metricOf returns the label and unit of a metric name. Names it does not
@@ -102,13 +69,8 @@ func metricOf(name string) metricInfo {
 			return metricInfo{"Volatility " + strconv.Itoa(n) + "-day (ann.)", unitPct, 0}
 		}
 	}
-	for k, label := range map[string]string{"var": "VaR", "es": "ES"} {
-		if w, ok := strings.CutPrefix(name, k+"_"); ok {
-			c, h, _ := strings.Cut(w, "_")
-			if n, err := strconv.Atoi(strings.TrimSuffix(h, "d")); err == nil && len(c) >= 2 {
-				return metricInfo{fmt.Sprintf("%s %s%%, %d day%s", label, c[:2]+dotRest(c[2:]), n, plural(n)), unitPct, 0}
-			}
-		}
+	if label, ok := lossLabel(name); ok {
+		return metricInfo{label, unitPct, 0}
 	}
 	mi := metricInfo{label: humanize(name), unit: unitNumber, dec: 4}
 	if li, ok := limits.Lookup(name); ok {
@@ -145,6 +107,32 @@ func metricOf(name string) metricInfo {
 		mi.unit = unitMoney
 	}
 	return mi
+}
+
+// lossLabel labels a VaR or ES name of pack.LossMetric: "var_99_1d" ->
+// "VaR 99%, 1 day", "es_normal_975_1d" -> "ES 97.5%, 1 day (normal)".
+func lossLabel(name string) (string, bool) {
+	kind, rest, _ := strings.Cut(name, "_")
+	label := map[string]string{"var": "VaR", "es": "ES"}[kind]
+	parts := strings.Split(rest, "_")
+	if label == "" || len(parts) < 2 {
+		return "", false
+	}
+	c, h := parts[len(parts)-2], parts[len(parts)-1]
+	n, err := strconv.Atoi(strings.TrimSuffix(h, "d"))
+	if _, cerr := strconv.Atoi(c); err != nil || cerr != nil || len(c) < 2 || !strings.HasSuffix(h, "d") {
+		return "", false
+	}
+	s := fmt.Sprintf("%s %s%%, %d day%s", label, c[:2]+dotRest(c[2:]), n, plural(n))
+	switch m := strings.Join(parts[:len(parts)-2], "_"); m {
+	case "":
+	default:
+		if strings.HasPrefix(m, "amount") {
+			return "", false
+		}
+		s += " (" + methodLabel(m) + ")"
+	}
+	return s, true
 }
 
 // dotRest writes the digits of a confidence after the first two as
@@ -198,7 +186,7 @@ func (mi metricInfo) axis(ccy string) string {
 	case unitYears2:
 		return "years^2"
 	}
-	return mi.label
+	return "" // the chart's title names the figure
 }
 
 // scale is the factor from the stored value to the value plotted on the

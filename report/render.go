@@ -72,6 +72,7 @@ type builder struct {
 	sem    chan struct{} // bounds the charts drawn at once
 	err    error         // first text error of the section being built
 	order  []string
+	pageOf map[string]int // first page of each section, 0 if unknown
 }
 
 // fpdfSetup makes the PDF writer list fonts and images in a fixed order
@@ -148,9 +149,11 @@ func Render(w io.Writer, doc *pack.Document, meta Meta, opt Options) error {
 		return fmt.Errorf("report: footer: %w", err)
 	}
 
+	b.pageOf = map[string]int{}
 	for i, s := range sections {
+		b.pageOf[s] = 1
 		if i > 0 {
-			b.newPage()
+			b.pageOf[s] = b.sectionPage()
 		}
 		if err := b.section(s); err != nil {
 			return fmt.Errorf("report: section %s: %w", s, err)

@@ -77,7 +77,7 @@ func TestRenderHeadlineFigures(t *testing.T) {
 	v, e := headlineVaR(doc), headlineES(doc)
 	var md pack.DriftItem
 	for _, it := range doc.Drift {
-		if it.Metric == mDurModified {
+		if it.Metric == pack.MetricDurModified {
 			md = it
 		}
 	}
@@ -97,15 +97,15 @@ func TestRenderHeadlineFigures(t *testing.T) {
 		{"Volatility 63-day (ann.)", []string{Pct(*s.Volatility[1].Discrete)}},
 		{"Volatility 252-day (ann.)", []string{Pct(*s.Volatility[2].Discrete)}},
 		{"EWMA volatility (ann.)", []string{Pct(*s.EWMAVolatility)}},
-		{"VaR 99%, 1 day (historical)", []string{Pct(v.VaR) + " = " + Money(v.VaRAmount, "USD")}},
-		{"ES 97.5%, 1 day (historical)", []string{Pct(e.ES) + " = " + Money(e.ESAmount, "USD")}},
+		{"VaR 99%, 1 day (historical)", []string{Pct(v.VaR) + " (" + Money(v.VaRAmount, "USD") + ")"}},
+		{"ES 97.5%, 1 day (historical)", []string{Pct(e.ES) + " (" + Money(e.ESAmount, "USD") + ")"}},
 		{"Modified duration (model)", []string{Years(*s.ModifiedDuration), Years(*md.Previous), YearsSigned(*md.Change)}},
 		{"Empirical duration (regression)", []string{Years(s.Empirical.Value) + " (s.e. " + Years(s.Empirical.StdErr) + ")"}},
 		{"Convexity", []string{Convexity(*s.Convexity)}},
 		{"Growth duration", []string{Years(*s.GrowthDuration)}},
 		{"Beta (CAPM)", []string{Num(*s.Beta, 2)}},
 		{"Tracking error (ann.)", []string{Pct(*s.TrackingError)}},
-		{"Maximum drawdown", []string{Pct(*s.MaxDrawdown)}},
+		{"Maximum drawdown since inception", []string{Pct(*s.MaxDrawdown)}},
 	}
 	for _, tt := range tests {
 		got := after(sum, tt.label, len(tt.want))
@@ -379,6 +379,34 @@ func TestRenderManyLimits(t *testing.T) {
 	for _, l := range doc.Limits {
 		if index(app, l.Name) < 0 {
 			t.Errorf("appendix lacks limit %q", l.Name)
+		}
+	}
+}
+
+// The contents give each section's first page: the page whose first
+// string is the section's title, as the independent PDF reader sees it.
+func TestRenderContentsPages(t *testing.T) {
+	for _, n := range []int{20, 200} {
+		pages := pageTokens(t, render(t, fixtureDoc(n), Options{}))
+		cover := pages[0]
+		found := 0
+		for i, tok := range cover {
+			num, ok := strings.CutPrefix(tok, "page ")
+			if !ok || i == 0 {
+				continue
+			}
+			var p int
+			if _, err := fmt.Sscan(num, &p); err != nil || p < 2 || p > len(pages) {
+				t.Errorf("%d holdings: contents entry %q: no such page", n, tok)
+				continue
+			}
+			found++
+			if title := cover[i-1]; pages[p-1][0] != title {
+				t.Errorf("%d holdings: contents say %q starts on page %d, which starts with %q", n, title, p, pages[p-1][0])
+			}
+		}
+		if want := len(SectionNames()) - 1; found != want {
+			t.Errorf("%d holdings: %d contents entries with a page, want %d", n, found, want)
 		}
 	}
 }

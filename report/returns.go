@@ -35,8 +35,8 @@ func (b *builder) returns() error {
 		{"Benchmark, week", Opt(r.BenchmarkWeek, PctSigned)},
 		{"Benchmark, year to date", Opt(r.BenchmarkYearToDate, PctSigned)},
 		{"Tracking error (ann.)", Opt(s.TrackingError, Pct)},
-		{"Maximum drawdown", Opt(s.MaxDrawdown, Pct)},
-		{"Current drawdown", Opt(s.CurrentDrawdown, Pct)},
+		{"Max. drawdown to date", Opt(s.MaxDrawdown, Pct)},
+		{"Drawdown now", Opt(s.CurrentDrawdown, Pct)},
 		{"Beta to benchmark", Opt(s.BenchmarkBeta, num2)},
 	}, 3)
 
@@ -115,7 +115,7 @@ func (b *builder) drawdownChart(xs []float64) (*plot.Plot, error) {
 	if len(sr.Discrete) == 0 {
 		return nil, nil
 	}
-	p := newPlot("Drawdown from previous peak (time-weighted)", "Date", "Drawdown (%)")
+	p := newPlot("Drawdown from the running peak of this period", "Date", "Drawdown (%)")
 	dateAxis(p, 6)
 	dd := make([]float64, min(len(xs), len(sr.Discrete)))
 	idx, peak := 1.0, 1.0

@@ -64,8 +64,9 @@ func (b *builder) sensitivity() error {
 	}, rows)
 
 	if d.Curve != nil {
-		// Factors, chart and the first lines of the table belong together.
-		b.ensure(125)
+		// Title, factors and chart belong together; the table of factor
+		// durations by holding may start on the next page.
+		b.ensure(42 + curveChartH)
 	}
 	b.subheading(b.text(sec, "curve"), 30)
 	if d.Curve == nil {
@@ -85,6 +86,10 @@ func (b *builder) sensitivity() error {
 	return b.err
 }
 
+// curveChartH is the height of the yield curve chart, mm: a smooth curve
+// reads well low.
+const curveChartH = 50.0
+
 func (b *builder) curve(sec string, hs []pack.Holding) error {
 	c := b.doc.Curve
 	s := b.doc.Summary
@@ -101,11 +106,11 @@ func (b *builder) curve(sec string, hs []pack.Holding) error {
 		{"Curvature duration", Opt(s.CurvatureDuration, Years)},
 	}, 3)
 	if len(c.Points) > 0 {
-		png, err := b.curveChart(b.width, chartFullH-6)
+		png, err := b.curveChart(b.width, curveChartH)
 		if err != nil {
 			return err
 		}
-		b.chartRow(chartFullH-6, png)
+		b.chartRow(curveChartH, png)
 	}
 	var rows []tableRow
 	for _, h := range hs {
@@ -118,7 +123,7 @@ func (b *builder) curve(sec string, hs []pack.Holding) error {
 		}
 		rows = append(rows, tableRow{cells: []string{
 			h.ID, Opt(h.LevelDur, num2), Opt(h.SlopeDur, num2), Opt(h.CurveDur, num2),
-			emp, se, r2, Opt(h.NumericalError, Sci),
+			emp, se, r2, numErr(h),
 		}})
 	}
 	if len(rows) > 0 {
@@ -129,6 +134,15 @@ func (b *builder) curve(sec string, hs []pack.Holding) error {
 		}, rows)
 	}
 	return nil
+}
+
+// numErr prints the estimated error of a holding's numerical durations;
+// the constant-growth model's are closed forms and have none.
+func numErr(h pack.Holding) string {
+	if h.NumericalError == nil && h.Model == "constant_growth" {
+		return "closed form"
+	}
+	return Opt(h.NumericalError, Sci)
 }
 
 // curveChart plots observed yields beside the Nelson-Siegel fit.
@@ -175,11 +189,12 @@ func (b *builder) curveChart(w, h float64) (*chartJob, error) {
 func (b *builder) explain(sec string, hs []pack.Holding) {
 	e := b.doc.Explain
 	b.paragraphs(b.text(sec, "explain_intro"))
+	// The portfolio has no single change in k or g (each holding has its
+	// own, in the table), so the document's portfolio DeltaK and DeltaG
+	// are not printed.
 	b.pairs([]pair{
 		{"From", e.From},
 		{"To", e.To},
-		{"Change in k", BP(e.DeltaK)},
-		{"Change in g", BP(e.DeltaG)},
 		{"Taylor estimate", PctSigned(e.Taylor)},
 		{"Full revaluation", PctSigned(e.Full)},
 		{"Residual", PctSigned(e.Residual)},

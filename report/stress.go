@@ -3,10 +3,13 @@ package report
 import (
 	"fmt"
 	"image/color"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
+
+	"plumbline/risk/pack"
 )
 
 // stress prints the scenarios (full revaluation beside the Taylor
@@ -49,7 +52,6 @@ func (b *builder) stress() error {
 
 		b.subheading(b.text(sec, "contributors"), 20)
 		rows = nil
-		var failed []string
 		for _, s := range d.Stress {
 			for i, c := range s.Top {
 				name := ""
@@ -60,15 +62,14 @@ func (b *builder) stress() error {
 					name, c.ID, c.Sector, money(c.PnL), PctSigned(c.Pct), Opt(c.Taylor, money),
 				}})
 			}
-			for _, f := range s.Failed {
-				failed = append(failed, fmt.Sprintf("- %s: %s not revalued (%s; %s of value).", s.Name, f.ID, f.Reason, Pct(f.ValueShare)))
-			}
 		}
 		b.groupedTable([]column{
 			{"Scenario", 6, false, false}, {"Holding", 3, false, false}, {"Sector", 4, false, false},
 			{"Full P&L (" + b.ccy + ")", 4, true, false}, {"% of holding value", 3, true, false}, {"Taylor P&L (" + b.ccy + ")", 4, true, false},
 		}, rows)
-		if len(failed) > 0 {
+		if failed := failedNotes(d.Stress); len(failed) > 0 {
+			b.subheading(b.text(sec, "failed"), 10)
+			b.paragraphs(b.text(sec, "failed_intro"))
 			b.paragraphs(strings.Join(failed, "\n"))
 		}
 	}
@@ -97,6 +98,45 @@ func (b *builder) stress() error {
 		b.paragraphs(strings.Join(notes, "\n"))
 	}
 	return b.err
+}
+
+// failedNotes lists the holdings some scenarios could not revalue, one
+// line per holding and reason with the scenarios it concerns, rather than
+// one line per scenario and holding.
+func failedNotes(ss []pack.StressResult) []string {
+	type key struct{ id, reason string }
+	var keys []key
+	share := map[key]float64{}
+	in := map[key][]string{}
+	for _, s := range ss {
+		for _, f := range s.Failed {
+			k := key{f.ID, f.Reason}
+			if _, ok := in[k]; !ok {
+				keys = append(keys, k)
+			}
+			in[k] = append(in[k], s.Name)
+			share[k] = f.ValueShare
+		}
+	}
+	var out []string
+	for _, k := range keys {
+		where := "in every scenario"
+		if sc := in[k]; len(sc) < len(ss) {
+			var rest []string
+			for _, s := range ss {
+				if !slices.Contains(sc, s.Name) {
+					rest = append(rest, s.Name)
+				}
+			}
+			if len(rest) < len(sc) {
+				where = "in every scenario but " + strings.Join(rest, ", ")
+			} else {
+				where = "in " + strings.Join(sc, ", ")
+			}
+		}
+		out = append(out, fmt.Sprintf("- %s (%s of value), %s: %s.", k.id, Pct(share[k]), where, strings.TrimSuffix(tidyText(k.reason), ".")))
+	}
+	return out
 }
 
 // stressChart shows each scenario's loss or gain in percent of value,

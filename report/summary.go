@@ -72,7 +72,9 @@ func findVaR(doc *pack.Document, conf float64) *pack.VaRFigure {
 }
 
 // headline builds the summary's figures with their change since the
-// previous run, taken from Document.Drift.
+// previous run, taken from Document.Drift. A figure pack follows across
+// runs (pack.Headline, or found in the history) shows n/a for a previous
+// value or change the document lacks; the others leave them blank.
 func headline(doc *pack.Document) []Figure {
 	s := doc.Summary
 	ccy := doc.BaseCurrency
@@ -80,16 +82,28 @@ func headline(doc *pack.Document) []Figure {
 	for _, it := range doc.Drift {
 		drift[it.Metric] = it
 	}
+	tracked := pack.Headline(doc)
+	for _, h := range doc.History {
+		for k, v := range h.Metrics {
+			if _, ok := tracked[k]; !ok {
+				tracked[k] = v
+			}
+		}
+	}
 	var out []Figure
 	add := func(metric, label, value string) {
-		f := Figure{Metric: metric, Label: label, Value: value}
+		f := Figure{Label: label, Value: value}
 		if metric != "" {
 			mi := metricOf(metric)
 			if f.Label == "" {
 				f.Label = mi.label
 			}
-			f.Previous, f.Change = NA, NA
-			if it, ok := drift[metric]; ok {
+			it, inDrift := drift[metric]
+			if _, ok := tracked[metric]; ok || inDrift {
+				f.Metric = metric
+				f.Previous, f.Change = NA, NA
+			}
+			if inDrift {
 				f.Previous = Opt(it.Previous, func(x float64) string { return mi.format(x, ccy) })
 				f.Change = Opt(it.Change, func(x float64) string { return mi.change(x, ccy) })
 				f.Z = Opt(it.Z, func(x float64) string { return NumSigned(x, 1) })
@@ -101,45 +115,45 @@ func headline(doc *pack.Document) []Figure {
 	pct := func(p *float64) string { return Opt(p, Pct) }
 	money := func(x float64) string { return Money(x, ccy) }
 
-	add(mValue, "", money(s.Value))
+	add(pack.MetricValue, "", money(s.Value))
 	add("", "Cash", money(s.Cash))
 	r := s.Returns
-	add(mReturnWeek, "", pct(r.Week))
-	add(mReturnMTD, "", pct(r.MonthToDate))
-	add(mReturnQTD, "", pct(r.QuarterToDate))
-	add(mReturnYTD, "", pct(r.YearToDate))
+	add(pack.MetricReturnWeek, "", pct(r.Week))
+	add(pack.MetricReturnMTD, "", pct(r.MonthToDate))
+	add(pack.MetricReturnQTD, "", pct(r.QuarterToDate))
+	add(pack.MetricReturnYTD, "", pct(r.YearToDate))
 	si := "Return since inception"
 	if r.InceptionDate != "" {
 		si += " (" + r.InceptionDate + ")"
 	}
-	add(mReturnSI, si, pct(r.SinceInception))
+	add(pack.MetricReturnSI, si, pct(r.SinceInception))
 	add("", "  annualised", pct(r.SinceInceptionAnn))
 	add("", "Benchmark return, week", pct(r.BenchmarkWeek))
 	add("", "Benchmark return, year to date", pct(r.BenchmarkYearToDate))
 	for _, w := range s.Volatility {
-		add(volMetric(w.WindowDays), "", pct(w.Discrete))
+		add(pack.VolatilityMetric(w.WindowDays), "", pct(w.Discrete))
 	}
-	add(mEWMA, "", pct(s.EWMAVolatility))
+	add(pack.MetricEWMA, "", pct(s.EWMAVolatility))
 	if v, e := headlineVaR(doc), headlineES(doc); v != nil {
 		lbl := fmt.Sprintf("VaR %s, %d day%s (%s)", confidence(v.Confidence), v.HorizonDays, plural(v.HorizonDays), methodLabel(v.Method))
-		add(lossMetric("var", v.Confidence, v.HorizonDays), lbl, Pct(v.VaR)+" = "+money(v.VaRAmount))
+		add(pack.LossMetric("var", v), lbl, Pct(v.VaR)+" ("+money(v.VaRAmount)+")")
 		lbl = fmt.Sprintf("ES %s, %d day%s (%s)", confidence(e.Confidence), e.HorizonDays, plural(e.HorizonDays), methodLabel(e.Method))
-		add(lossMetric("es", e.Confidence, e.HorizonDays), lbl, Pct(e.ES)+" = "+money(e.ESAmount))
+		add(pack.LossMetric("es", e), lbl, Pct(e.ES)+" ("+money(e.ESAmount)+")")
 	} else {
-		add(lossMetric("var", 0.99, 1), "", NA)
-		add(lossMetric("es", 0.975, 1), "", NA)
+		add(pack.LossMetric("var", &pack.VaRFigure{Method: "historical", Confidence: 0.99, HorizonDays: 1}), "", NA)
+		add(pack.LossMetric("es", &pack.VaRFigure{Method: "historical", Confidence: 0.975, HorizonDays: 1}), "", NA)
 	}
-	add(mDurModified, "Modified duration (model)", Opt(s.ModifiedDuration, Years))
+	add(pack.MetricDurModified, "Modified duration (model)", Opt(s.ModifiedDuration, Years))
 	emp := NA
 	if s.Empirical != nil {
 		emp = Years(s.Empirical.Value) + " (s.e. " + Years(s.Empirical.StdErr) + ")"
 	}
-	add(mDurEmp, "Empirical duration (regression)", emp)
-	add(mConvexity, "", Opt(s.Convexity, Convexity))
-	add(mGrowthDur, "", Opt(s.GrowthDuration, Years))
-	add(mBeta, "", Opt(s.Beta, func(x float64) string { return Num(x, 2) }))
-	add(mTracking, "", pct(s.TrackingError))
-	add(mMaxDrawdown, "", pct(s.MaxDrawdown))
+	add(pack.MetricDurEmpirical, "Empirical duration (regression)", emp)
+	add(pack.MetricConvexity, "", Opt(s.Convexity, Convexity))
+	add(pack.MetricGrowthDuration, "", Opt(s.GrowthDuration, Years))
+	add(pack.MetricBeta, "", Opt(s.Beta, func(x float64) string { return Num(x, 2) }))
+	add(pack.MetricTrackingError, "", pct(s.TrackingError))
+	add(pack.MetricMaxDrawdown, "", pct(s.MaxDrawdown))
 	return out
 }
 
@@ -223,7 +237,7 @@ func (b *builder) summary() error {
 	b.subheading(b.text(sec, "headline"), 20)
 	cols := []column{
 		{"Figure", 8, false, false}, {"This run", 6, true, false}, {"Previous run", 4, true, false},
-		{"Change", 3, true, false}, {"z", 3, true, false},
+		{"Change", 3, true, false}, {"z-score", 3, true, false},
 	}
 	var rows []tableRow
 	data := b.tx.data
@@ -267,7 +281,13 @@ func (b *builder) summary() error {
 	} else {
 		fs := append([]pack.Finding(nil), d.DataQuality...)
 		sort.SliceStable(fs, func(i, j int) bool { return fs[i].ValueShare > fs[j].ValueShare })
-		b.table(findingColumns(false), findingRows(fs, summaryFindings))
+		rows := findingRows(fs, summaryFindings)
+		// Details wrap, two lines at most; the appendix has them in full.
+		w := b.colWidth(findingColumns(true)[2].span) - 2*cellPad
+		for i := range rows {
+			rows[i].cells[2] = b.meas.fitLines(rows[i].cells[2], w, sizeTable, 2)
+		}
+		b.table(findingColumns(true), rows)
 		if n := len(fs) - summaryFindings; n > 0 {
 			b.note(fmt.Sprintf("%d more findings in the appendix.", n))
 		}
@@ -279,8 +299,23 @@ func (b *builder) summary() error {
 func limitColumns() []column {
 	return []column{
 		{"Limit", 6, false, false}, {"Measure", 6, false, false}, {"Value", 3, true, false},
-		{"Limit level", 3, true, false}, {"Headroom", 3, true, false}, {"Status", 3, false, false},
+		{"Breach level", 3, true, false}, {"Headroom", 3, true, false}, {"Status", 3, false, false},
 	}
+}
+
+// limitSide tells whether a limit's breach level is a ceiling ("max") or
+// a floor ("min"). The document does not say; the headroom does, being
+// Level - Value on the max side and Value - Level on the min side
+// (risk/limits.Evaluate). It is "" when the value is absent.
+func limitSide(l pack.LimitStatus) string {
+	if l.Value == nil || l.Level == nil || l.Headroom == nil {
+		return ""
+	}
+	up, down := *l.Level-*l.Value, *l.Value-*l.Level
+	if math.Abs(*l.Headroom-up) <= math.Abs(*l.Headroom-down) {
+		return "max"
+	}
+	return "min"
 }
 
 // limitRows formats limits.
@@ -289,8 +324,16 @@ func (b *builder) limitRows(ls []pack.LimitStatus) []tableRow {
 	for _, l := range ls {
 		mi := metricOf(l.Metric)
 		f := func(x float64) string { return mi.format(x, b.ccy) }
+		measure := mi.label
+		if l.Scenario != "" {
+			measure += ": " + l.Scenario
+		}
+		level := Opt(l.Level, f)
+		if side := limitSide(l); side != "" {
+			level = side + " " + level
+		}
 		rows = append(rows, tableRow{
-			cells: []string{l.Name, mi.label, Opt(l.Value, f), Opt(l.Level, f),
+			cells: []string{l.Name, measure, Opt(l.Value, f), level,
 				Opt(l.Headroom, func(x float64) string { return mi.change(x, b.ccy) }), statusLabel(l.Status)},
 			tones: []tone{toneNone, toneNone, toneNone, toneNone, toneNone, statusTone(l.Status)},
 		})
@@ -345,7 +388,7 @@ func findingRows(fs []pack.Finding, max int) []tableRow {
 		if id == "" {
 			id = "-"
 		}
-		rows = append(rows, tableRow{cells: []string{kindLabel(f.Kind), id, f.Detail, Pct(f.ValueShare)}})
+		rows = append(rows, tableRow{cells: []string{kindLabel(f.Kind), id, tidyText(f.Detail), Pct(f.ValueShare)}})
 	}
 	return rows
 }

@@ -119,6 +119,7 @@ func (b *builder) histogram(w, h float64) (*chartJob, error) {
 	hist.LineStyle.Color = color.RGBA{R: 90, G: 110, B: 140, A: 255}
 	hist.LineStyle.Width = vg.Points(0.3)
 	p.Add(hist)
+	padX(p, 0.02) // the outermost bins clear the frame
 	if v != nil && v.HorizonDays == 1 {
 		top := 0.0
 		for _, bin := range hist.Bins {

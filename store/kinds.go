@@ -24,6 +24,18 @@ var kinds = []kindSpec{
 	{KindFlows, []string{"date", "portfolio_id", "amount"}, newFlowLoader},
 }
 
+// Header returns the exact header row of an input kind's CSV file, or
+// nil for an unknown kind. Writers of ingestible files (export) use it so
+// the two can never disagree.
+func Header(k Kind) []string {
+	for i := range kinds {
+		if kinds[i].kind == k {
+			return append([]string(nil), kinds[i].cols...)
+		}
+	}
+	return nil
+}
+
 // kindOrder is the load rank of k; unknown kinds come last.
 func kindOrder(k Kind) int {
 	for i := range kinds {

@@ -89,12 +89,6 @@ func (m OutboxMessage) check() error {
 	return nil
 }
 
-// EnqueueTx adds m to the outbox inside tx, the transaction that saves
-// the run m.RunID, and returns the message's id.
-func (db *DB) EnqueueTx(ctx context.Context, tx *sql.Tx, m OutboxMessage) (int64, error) {
-	return enqueue(ctx, tx, m)
-}
-
 // Enqueue adds m to the outbox in a transaction of its own.
 func (db *DB) Enqueue(ctx context.Context, m OutboxMessage) (int64, error) {
 	tx, err := db.sql.BeginTx(ctx, nil)
@@ -221,8 +215,7 @@ func (db *DB) RunPDF(ctx context.Context, runID int64, want string) ([]byte, err
 	if err != nil {
 		return nil, fmt.Errorf("store: pdf of run %d: %w", runID, err)
 	}
-	sum := sha256.Sum256(pdf)
-	got := hex.EncodeToString(sum[:])
+	got := sha256Hex(pdf)
 	if !strings.EqualFold(got, stored) {
 		return nil, fmt.Errorf("store: pdf of run %d: bytes hash to %s, stored %s: %w", runID, got, stored, ErrPDFMismatch)
 	}

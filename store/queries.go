@@ -10,7 +10,9 @@ import (
 
 // Read API for the pipeline. Dates are time.Time at UTC midnight; a date
 // argument means the calendar day of t as written in its location. Ranges
-// [from, to] are inclusive; a zero from or to leaves that end open.
+// [from, to] are inclusive; a zero from or to leaves that end open. On a
+// view from At, every method below reads only the rows of ledger entries
+// up to the view's mark.
 
 // ErrNotFound means the requested rows do not exist.
 var ErrNotFound = errors.New("not found")
@@ -66,7 +68,8 @@ type Snapshot struct {
 	AsOf       time.Time
 	Revision   int
 	SourceFile string // name of the file it came from
-	// SupersededBy is the revision that replaced this one, 0 if current.
+	// SupersededBy is the revision that replaced this one, 0 if current
+	// (both as of the view's mark, see At).
 	SupersededBy int
 	Lines        []HoldingLine
 }
@@ -159,7 +162,7 @@ func floatPtr(n sql.NullFloat64) *float64 {
 // Portfolios returns every portfolio, by id.
 func (db *DB) Portfolios(ctx context.Context) ([]Portfolio, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT portfolio_id, name, strategy, inception_date, benchmark_method
-FROM portfolios ORDER BY portfolio_id`)
+FROM portfolios WHERE source_file_id <= ? ORDER BY portfolio_id`, db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("portfolios: %w", err)
 	}
@@ -182,7 +185,7 @@ FROM portfolios ORDER BY portfolio_id`)
 // Securities returns every security, by id.
 func (db *DB) Securities(ctx context.Context) ([]Security, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT security_id, name, sector, currency, shares_outstanding
-FROM securities ORDER BY security_id`)
+FROM securities WHERE source_file_id <= ? ORDER BY security_id`, db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("securities: %w", err)
 	}
@@ -202,11 +205,12 @@ FROM securities ORDER BY security_id`)
 // in effect on date: the one with the latest effective date <= date.
 func (db *DB) AssumptionsAsOf(ctx context.Context, date time.Time) (map[string]Assumption, error) {
 	const current = `SELECT a.id FROM assumptions a
-WHERE a.effective_date = (SELECT max(b.effective_date) FROM assumptions b
-                          WHERE b.security_id = a.security_id AND b.effective_date <= ?1)`
-	d := dateString(date)
+WHERE a.source_file_id <= ?2
+  AND a.effective_date = (SELECT max(b.effective_date) FROM assumptions b
+                          WHERE b.security_id = a.security_id AND b.effective_date <= ?1 AND b.source_file_id <= ?2)`
+	d, mark := dateString(date), db.visibleTo()
 	rows, err := db.sql.QueryContext(ctx, `SELECT id, security_id, effective_date, annual_dividend, frequency, growth, beta, discount_rate
-FROM assumptions WHERE id IN (`+current+`)`, d)
+FROM assumptions WHERE id IN (`+current+`)`, d, mark)
 	if err != nil {
 		return nil, fmt.Errorf("assumptions: %w", err)
 	}
@@ -233,7 +237,7 @@ FROM assumptions WHERE id IN (`+current+`)`, d)
 	}
 	rows.Close()
 	srows, err := db.sql.QueryContext(ctx, `SELECT assumption_id, years, growth, rate FROM assumption_stages
-WHERE assumption_id IN (`+current+`) ORDER BY assumption_id, ordinal`, d)
+WHERE assumption_id IN (`+current+`) ORDER BY assumption_id, ordinal`, d, mark)
 	if err != nil {
 		return nil, fmt.Errorf("assumption stages: %w", err)
 	}
@@ -254,9 +258,20 @@ WHERE assumption_id IN (`+current+`) ORDER BY assumption_id, ordinal`, d)
 	return out, srows.Err()
 }
 
-const snapshotCols = `s.id, s.portfolio_id, s.as_of, s.revision, f.name,
-ifnull((SELECT n.revision FROM holding_snapshots n WHERE n.id = s.superseded_by), 0)
-FROM holding_snapshots s JOIN ingest_files f ON f.id = s.source_file_id`
+// Snapshot queries take the highest visible source_file_id as ?1. A
+// revision is visible once its file is; the current revision of a
+// (portfolio, as_of) is the latest visible one, and a revision is
+// superseded by the next visible one. Without a mark this is the
+// superseded_by chain, since each revision supersedes the one before.
+const (
+	snapshotCols = `s.id, s.portfolio_id, s.as_of, s.revision, f.name,
+ifnull((SELECT min(n.revision) FROM holding_snapshots n WHERE n.portfolio_id = s.portfolio_id AND n.as_of = s.as_of
+        AND n.revision > s.revision AND n.source_file_id <= ?1), 0)
+FROM holding_snapshots s JOIN ingest_files f ON f.id = s.source_file_id
+WHERE s.source_file_id <= ?1`
+	snapshotCurrent = `NOT EXISTS (SELECT 1 FROM holding_snapshots n WHERE n.portfolio_id = s.portfolio_id AND n.as_of = s.as_of
+        AND n.revision > s.revision AND n.source_file_id <= ?1)`
+)
 
 // snapshots runs a query selecting snapshotCols and loads their lines.
 func (db *DB) snapshots(ctx context.Context, q string, args ...any) ([]Snapshot, error) {
@@ -312,8 +327,8 @@ FROM holding_lines WHERE snapshot_id = ? ORDER BY security_id IS NOT NULL, secur
 // securities by id. It returns ErrNotFound when there is none.
 func (db *DB) Holdings(ctx context.Context, portfolio string, asOf time.Time) (Snapshot, error) {
 	ss, err := db.snapshots(ctx, `SELECT `+snapshotCols+`
-WHERE s.portfolio_id = ? AND s.as_of <= ? AND s.superseded_by IS NULL
-ORDER BY s.as_of DESC LIMIT 1`, portfolio, dateString(asOf))
+  AND s.portfolio_id = ?2 AND s.as_of <= ?3 AND `+snapshotCurrent+`
+ORDER BY s.as_of DESC LIMIT 1`, db.visibleTo(), portfolio, dateString(asOf))
 	if err != nil {
 		return Snapshot{}, fmt.Errorf("holdings of %s on %s: %w", portfolio, dateString(asOf), err)
 	}
@@ -327,8 +342,8 @@ ORDER BY s.as_of DESC LIMIT 1`, portfolio, dateString(asOf))
 // [from, to], oldest first.
 func (db *DB) HoldingsSnapshots(ctx context.Context, portfolio string, from, to time.Time) ([]Snapshot, error) {
 	ss, err := db.snapshots(ctx, `SELECT `+snapshotCols+`
-WHERE s.portfolio_id = ? AND s.as_of BETWEEN ? AND ? AND s.superseded_by IS NULL
-ORDER BY s.as_of`, portfolio, lowDate(from), highDate(to))
+  AND s.portfolio_id = ?2 AND s.as_of BETWEEN ?3 AND ?4 AND `+snapshotCurrent+`
+ORDER BY s.as_of`, db.visibleTo(), portfolio, lowDate(from), highDate(to))
 	if err != nil {
 		return nil, fmt.Errorf("holdings snapshots of %s: %w", portfolio, err)
 	}
@@ -339,7 +354,7 @@ ORDER BY s.as_of`, portfolio, lowDate(from), highDate(to))
 // exactly asOf, superseded ones included, oldest first: the audit view.
 func (db *DB) HoldingsRevisions(ctx context.Context, portfolio string, asOf time.Time) ([]Snapshot, error) {
 	ss, err := db.snapshots(ctx, `SELECT `+snapshotCols+`
-WHERE s.portfolio_id = ? AND s.as_of = ? ORDER BY s.revision`, portfolio, dateString(asOf))
+  AND s.portfolio_id = ?2 AND s.as_of = ?3 ORDER BY s.revision`, db.visibleTo(), portfolio, dateString(asOf))
 	if err != nil {
 		return nil, fmt.Errorf("holdings revisions of %s on %s: %w", portfolio, dateString(asOf), err)
 	}
@@ -350,7 +365,7 @@ WHERE s.portfolio_id = ? AND s.as_of = ? ORDER BY s.revision`, portfolio, dateSt
 // then security.
 func (db *DB) Prices(ctx context.Context, from, to time.Time) ([]Price, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT date, security_id, close, dividend, split_ratio
-FROM prices WHERE date BETWEEN ? AND ? ORDER BY date, security_id`, lowDate(from), highDate(to))
+FROM prices WHERE date BETWEEN ? AND ? AND source_file_id <= ? ORDER BY date, security_id`, lowDate(from), highDate(to), db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("prices: %w", err)
 	}
@@ -374,7 +389,7 @@ FROM prices WHERE date BETWEEN ? AND ? ORDER BY date, security_id`, lowDate(from
 // Yields returns the yields dated in [from, to], by date then tenor.
 func (db *DB) Yields(ctx context.Context, from, to time.Time) ([]Yield, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT date, tenor_months, yield
-FROM yields WHERE date BETWEEN ? AND ? ORDER BY date, tenor_months`, lowDate(from), highDate(to))
+FROM yields WHERE date BETWEEN ? AND ? AND source_file_id <= ? ORDER BY date, tenor_months`, lowDate(from), highDate(to), db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("yields: %w", err)
 	}
@@ -398,7 +413,7 @@ FROM yields WHERE date BETWEEN ? AND ? ORDER BY date, tenor_months`, lowDate(fro
 // Premiums returns the equity risk premiums dated in [from, to], by date.
 func (db *DB) Premiums(ctx context.Context, from, to time.Time) ([]Premium, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT date, equity_risk_premium
-FROM premiums WHERE date BETWEEN ? AND ? ORDER BY date`, lowDate(from), highDate(to))
+FROM premiums WHERE date BETWEEN ? AND ? AND source_file_id <= ? ORDER BY date`, lowDate(from), highDate(to), db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("premiums: %w", err)
 	}
@@ -421,7 +436,7 @@ FROM premiums WHERE date BETWEEN ? AND ? ORDER BY date`, lowDate(from), highDate
 // Flows returns portfolio's external flows dated in [from, to], by date.
 func (db *DB) Flows(ctx context.Context, portfolio string, from, to time.Time) ([]Flow, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT date, portfolio_id, amount
-FROM flows WHERE portfolio_id = ? AND date BETWEEN ? AND ? ORDER BY date`, portfolio, lowDate(from), highDate(to))
+FROM flows WHERE portfolio_id = ? AND date BETWEEN ? AND ? AND source_file_id <= ? ORDER BY date`, portfolio, lowDate(from), highDate(to), db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("flows of %s: %w", portfolio, err)
 	}
@@ -446,7 +461,7 @@ FROM flows WHERE portfolio_id = ? AND date BETWEEN ? AND ? ORDER BY date`, portf
 func (db *DB) LatestDates(ctx context.Context) (Latest, error) {
 	l := Latest{Holdings: map[string]time.Time{}}
 	var p sql.NullString
-	if err := db.sql.QueryRowContext(ctx, `SELECT max(date) FROM prices`).Scan(&p); err != nil {
+	if err := db.sql.QueryRowContext(ctx, `SELECT max(date) FROM prices WHERE source_file_id <= ?`, db.visibleTo()).Scan(&p); err != nil {
 		return l, fmt.Errorf("latest dates: %w", err)
 	}
 	if p.Valid {
@@ -456,8 +471,9 @@ func (db *DB) LatestDates(ctx context.Context) (Latest, error) {
 		}
 		l.Prices = t
 	}
+	// Every date with a visible revision has a current one at the mark.
 	rows, err := db.sql.QueryContext(ctx, `SELECT portfolio_id, max(as_of) FROM holding_snapshots
-WHERE superseded_by IS NULL GROUP BY portfolio_id`)
+WHERE source_file_id <= ? GROUP BY portfolio_id`, db.visibleTo())
 	if err != nil {
 		return l, fmt.Errorf("latest dates: %w", err)
 	}
@@ -479,7 +495,7 @@ WHERE superseded_by IS NULL GROUP BY portfolio_id`)
 // Ledger returns every file offered to Ingest, oldest first.
 func (db *DB) Ledger(ctx context.Context) ([]LedgerEntry, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT id, name, path, sha256, ifnull(kind, ''), rows, outcome, ifnull(error, ''), ingested_at
-FROM ingest_files ORDER BY id`)
+FROM ingest_files WHERE id <= ? ORDER BY id`, db.visibleTo())
 	if err != nil {
 		return nil, fmt.Errorf("ledger: %w", err)
 	}

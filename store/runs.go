@@ -7,14 +7,12 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"sort"
 	"time"
 )
 
 // ErrReasonRequired is returned when a run would supersede an earlier run
 // of the same portfolio and date without saying why.
-// dateLayout is how dates are stored: ISO 8601 calendar dates.
-const dateLayout = "2006-01-02"
-
 var ErrReasonRequired = errors.New("a re-run of an as-of date needs a reason")
 
 // NewRun is what the pipeline hands over to persist a run.
@@ -31,6 +29,9 @@ type NewRun struct {
 	ResultsSchema  string
 	ResultsJSON    []byte
 	Metrics        []MetricRow
+	// Headline is the run's headline metrics: what later runs of the
+	// portfolio measure their drift against.
+	Headline map[string]float64
 }
 
 // MetricRow is one long-form metric of a run.
@@ -80,7 +81,7 @@ func (db *DB) SaveRun(ctx context.Context, nr NewRun, complete func(*Run) (*Comp
 		return nil, fmt.Errorf("store: save run: %w", err)
 	}
 	defer tx.Rollback()
-	asOf := nr.AsOf.Format(dateLayout)
+	asOf := nr.AsOf.Format(time.DateOnly)
 	var prevID sql.NullInt64
 	var prevRev sql.NullInt64
 	err = tx.QueryRowContext(ctx, `SELECT id, revision FROM current_runs WHERE portfolio_id = ? AND as_of = ?
@@ -101,13 +102,12 @@ func (db *DB) SaveRun(ctx context.Context, nr NewRun, complete func(*Run) (*Comp
 	} else if nr.Reason != "" {
 		reason = nr.Reason
 	}
-	sum := sha256.Sum256(nr.ResultsJSON)
 	res, err := tx.ExecContext(ctx, `INSERT INTO runs (portfolio_id, as_of, revision, supersedes, reason,
 		created_at, program_version, config_json, config_hash, input_hash, ledger_mark,
 		results_schema, results_json, results_hash) VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?,?)`,
 		nr.PortfolioID, asOf, rev, supersedes, reason, nr.CreatedAt.UTC().Format(time.RFC3339Nano),
 		nr.ProgramVersion, string(nr.ConfigJSON), nr.ConfigHash, nr.InputHash, nr.LedgerMark,
-		nr.ResultsSchema, string(nr.ResultsJSON), hex.EncodeToString(sum[:]))
+		nr.ResultsSchema, string(nr.ResultsJSON), sha256Hex(nr.ResultsJSON))
 	if err != nil {
 		return nil, fmt.Errorf("store: save run %s %s: %w", nr.PortfolioID, asOf, err)
 	}
@@ -125,6 +125,12 @@ func (db *DB) SaveRun(ctx context.Context, nr NewRun, complete func(*Run) (*Comp
 			return nil, fmt.Errorf("store: save run %d: metric %s/%s/%s: %w", id, m.Scope, m.Key, m.Metric, err)
 		}
 	}
+	for _, name := range sortedKeys(nr.Headline) {
+		if _, err := tx.ExecContext(ctx, `INSERT INTO run_headlines (run_id, metric, value) VALUES (?,?,?)`,
+			id, name, nr.Headline[name]); err != nil {
+			return nil, fmt.Errorf("store: save run %d: headline %s: %w", id, name, err)
+		}
+	}
 	run, err := getRun(ctx, tx, id)
 	if err != nil {
 		return nil, err
@@ -135,8 +141,7 @@ func (db *DB) SaveRun(ctx context.Context, nr NewRun, complete func(*Run) (*Comp
 			return nil, fmt.Errorf("store: complete run %d: %w", id, err)
 		}
 		if c != nil && c.PDF != nil {
-			ps := sha256.Sum256(c.PDF)
-			run.PDFSHA256 = hex.EncodeToString(ps[:])
+			run.PDFSHA256 = sha256Hex(c.PDF)
 			if _, err := tx.ExecContext(ctx, `INSERT INTO run_pdfs (run_id, sha256, pdf, pages) VALUES (?,?,?,?)`,
 				id, run.PDFSHA256, c.PDF, c.Pages); err != nil {
 				return nil, fmt.Errorf("store: save PDF of run %d: %w", id, err)
@@ -163,8 +168,7 @@ func (db *DB) SaveRun(ctx context.Context, nr NewRun, complete func(*Run) (*Comp
 // AttachPDF stores the PDF of a run that has none yet (a run saved
 // without rendering). A run's PDF, once stored, never changes.
 func (db *DB) AttachPDF(ctx context.Context, runID int64, pdf []byte, pages int) (string, error) {
-	ps := sha256.Sum256(pdf)
-	sum := hex.EncodeToString(ps[:])
+	sum := sha256Hex(pdf)
 	if _, err := db.sql.ExecContext(ctx, `INSERT INTO run_pdfs (run_id, sha256, pdf, pages) VALUES (?,?,?,?)`,
 		runID, sum, pdf, pages); err != nil {
 		return "", fmt.Errorf("store: attach PDF to run %d: %w", runID, err)
@@ -188,7 +192,7 @@ func scanRun(s rowScanner) (*Run, error) {
 		return nil, err
 	}
 	var err error
-	if r.AsOf, err = time.Parse(dateLayout, asOf); err != nil {
+	if r.AsOf, err = time.Parse(time.DateOnly, asOf); err != nil {
 		return nil, err
 	}
 	if r.CreatedAt, err = time.Parse(time.RFC3339Nano, created); err != nil {
@@ -284,7 +288,7 @@ func (db *DB) MetricHistory(ctx context.Context, metric, scope, key, portfolio s
 		if err := rows.Scan(&p.RunID, &p.PortfolioID, &asOf, &p.Scope, &p.Key, &p.Value); err != nil {
 			return nil, err
 		}
-		if p.AsOf, err = time.Parse(dateLayout, asOf); err != nil {
+		if p.AsOf, err = time.Parse(time.DateOnly, asOf); err != nil {
 			return nil, err
 		}
 		out = append(out, p)
@@ -296,7 +300,7 @@ func (db *DB) MetricHistory(ctx context.Context, metric, scope, key, portfolio s
 func (db *DB) MetricNames(ctx context.Context, scope string) ([]string, error) {
 	rows, err := db.sql.QueryContext(ctx, `SELECT DISTINCT metric FROM run_metrics WHERE scope = ? ORDER BY metric`, scope)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("store: metric names: %w", err)
 	}
 	defer rows.Close()
 	var out []string
@@ -315,7 +319,7 @@ func (db *DB) RunMetrics(ctx context.Context, runID int64) ([]MetricRow, error) 
 	rows, err := db.sql.QueryContext(ctx, `SELECT scope, key, metric, value FROM run_metrics WHERE run_id = ?
 		ORDER BY scope, key, metric`, runID)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("store: metrics of run %d: %w", runID, err)
 	}
 	defer rows.Close()
 	var out []MetricRow
@@ -329,45 +333,73 @@ func (db *DB) RunMetrics(ctx context.Context, runID int64) ([]MetricRow, error) 
 	return out, rows.Err()
 }
 
-// PriorRuns returns the current runs of a portfolio with an as-of date
-// before asOf, created before the given run id (0: no bound), oldest
-// first, with their results. It is the history a run's drift is measured
-// against; bounding by id makes it the same when the run is verified later.
-func (db *DB) PriorRuns(ctx context.Context, portfolio string, asOf time.Time, beforeID int64) ([]*Run, error) {
-	// The latest revision created before the bound, per as-of date.
-	rows, err := db.sql.QueryContext(ctx, `SELECT r.id FROM runs r
+// Headline is one earlier run's headline metrics.
+type Headline struct {
+	RunID   int64
+	AsOf    time.Time
+	Metrics map[string]float64
+}
+
+// PriorHeadlines returns the headline metrics of a portfolio's runs with
+// an as-of date before asOf, one per date, oldest first: for each date the
+// run that was current just before run beforeID was made (0: now).
+// Bounding by id makes a run's history the same when it is verified later.
+func (db *DB) PriorHeadlines(ctx context.Context, portfolio string, asOf time.Time, beforeID int64) ([]Headline, error) {
+	rows, err := db.sql.QueryContext(ctx, `SELECT r.id, r.as_of, h.metric, h.value
+		FROM runs r JOIN run_headlines h ON h.run_id = r.id
 		WHERE r.portfolio_id = ? AND r.as_of < ? AND (? = 0 OR r.id < ?)
 		  AND NOT EXISTS (SELECT 1 FROM runs n WHERE n.supersedes = r.id AND (? = 0 OR n.id < ?))
-		ORDER BY r.as_of`, portfolio, asOf.Format(dateLayout), beforeID, beforeID, beforeID, beforeID)
+		ORDER BY r.as_of, r.id, h.metric`, portfolio, asOf.Format(time.DateOnly), beforeID, beforeID, beforeID, beforeID)
 	if err != nil {
-		return nil, fmt.Errorf("store: prior runs: %w", err)
+		return nil, fmt.Errorf("store: prior headlines of %s: %w", portfolio, err)
 	}
-	var ids []int64
+	defer rows.Close()
+	var out []Headline
 	for rows.Next() {
 		var id int64
-		if err := rows.Scan(&id); err != nil {
-			rows.Close()
-			return nil, err
+		var date, metric string
+		var v float64
+		if err := rows.Scan(&id, &date, &metric, &v); err != nil {
+			return nil, fmt.Errorf("store: prior headlines of %s: %w", portfolio, err)
 		}
-		ids = append(ids, id)
+		if n := len(out); n == 0 || out[n-1].RunID != id {
+			d, err := time.Parse(time.DateOnly, date)
+			if err != nil {
+				return nil, fmt.Errorf("store: run %d: as-of %q: %w", id, date, err)
+			}
+			out = append(out, Headline{RunID: id, AsOf: d, Metrics: map[string]float64{}})
+		}
+		out[len(out)-1].Metrics[metric] = v
 	}
-	rows.Close()
-	out := make([]*Run, 0, len(ids))
-	for _, id := range ids {
-		r, err := db.GetRun(ctx, id)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, r)
+	if err := rows.Err(); err != nil {
+		return nil, fmt.Errorf("store: prior headlines of %s: %w", portfolio, err)
 	}
 	return out, nil
 }
 
-// LedgerMark is the highest ingest ledger id: the inputs visible now.
+// LedgerMark is the highest ingest ledger id: the inputs visible now
+// (on a view from At, no higher than its mark). A run records it, and
+// db.At(mark) reads those inputs again later.
 func (db *DB) LedgerMark(ctx context.Context) (int64, error) {
 	var n sql.NullInt64
-	if err := db.sql.QueryRowContext(ctx, `SELECT max(id) FROM ingest_files`).Scan(&n); err != nil {
-		return 0, err
+	if err := db.sql.QueryRowContext(ctx, `SELECT max(id) FROM ingest_files WHERE id <= ?`, db.visibleTo()).Scan(&n); err != nil {
+		return 0, fmt.Errorf("store: ledger mark: %w", err)
 	}
 	return n.Int64, nil
+}
+
+// sha256Hex is the lower-case hex sha256 of b, the form every checksum is
+// stored in.
+func sha256Hex(b []byte) string {
+	s := sha256.Sum256(b)
+	return hex.EncodeToString(s[:])
+}
+
+func sortedKeys(m map[string]float64) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }

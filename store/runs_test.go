@@ -21,7 +21,8 @@ func newRun(asOf string, reason string) NewRun {
 		PortfolioID: "PF-GROWTH", AsOf: d, CreatedAt: d.Add(19 * time.Hour), Reason: reason,
 		ProgramVersion: "test", ConfigJSON: []byte(`{"a":1}`), ConfigHash: strings.Repeat("a", 64),
 		InputHash: strings.Repeat("b", 64), ResultsSchema: "plumbline.pack/1", ResultsJSON: []byte(`{"x":2}`),
-		Metrics: []MetricRow{{Scope: "portfolio", Metric: "duration_modified", Value: 21.5}},
+		Metrics:  []MetricRow{{Scope: "portfolio", Metric: "duration_modified", Value: 21.5}},
+		Headline: map[string]float64{"duration_modified": 21.5},
 	}
 }
 
@@ -44,6 +45,8 @@ func TestRunsAppendOnly(t *testing.T) {
 		`DELETE FROM run_metrics WHERE run_id = ?`,
 		`UPDATE run_pdfs SET pdf = x'00' WHERE run_id = ?`,
 		`DELETE FROM run_pdfs WHERE run_id = ?`,
+		`UPDATE run_headlines SET value = 0 WHERE run_id = ?`,
+		`DELETE FROM run_headlines WHERE run_id = ?`,
 	} {
 		if _, err := db.sql.Exec(q, r.ID); err == nil || !strings.Contains(err.Error(), "append-only") {
 			t.Errorf("%s: got %v, want an append-only refusal", q, err)
@@ -99,13 +102,13 @@ func TestRunsSupersede(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	prior, err := db.PriorRuns(ctx, "PF-GROWTH", d, r3.ID)
-	if err != nil || len(prior) != 1 || prior[0].ID != r2.ID {
+	prior, err := db.PriorHeadlines(ctx, "PF-GROWTH", d, r3.ID)
+	if err != nil || len(prior) != 1 || prior[0].RunID != r2.ID || prior[0].Metrics["duration_modified"] != 21.5 {
 		t.Fatalf("prior = %v, %v", prior, err)
 	}
 	// Before r2 existed, r1 was the current run of its date.
-	prior, _ = db.PriorRuns(ctx, "PF-GROWTH", d, r2.ID)
-	if len(prior) != 1 || prior[0].ID != r1.ID {
+	prior, _ = db.PriorHeadlines(ctx, "PF-GROWTH", d, r2.ID)
+	if len(prior) != 1 || prior[0].RunID != r1.ID {
 		t.Fatalf("prior before r2 = %v", prior)
 	}
 }

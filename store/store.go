@@ -27,6 +27,7 @@ type DB struct {
 	sql      *sql.DB
 	path     string
 	readOnly bool
+	mark     int64 // see At; 0: every input row
 }
 
 // Open opens (creating it if needed) the database at path in WAL mode with

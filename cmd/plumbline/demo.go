@@ -90,8 +90,10 @@ func (c *demoCmd) Run(ctx context.Context, env *Env, args []string) error {
 	for _, m := range res.Mail {
 		fmt.Fprintf(w, "  %s\n", m)
 	}
-	fmt.Fprintf(w, "\nTry: plumbline runs --db %s\n     plumbline history --db %s --metric duration_modified --portfolio %s\n",
-		res.Database, res.Database, res.Latest[0].Portfolio)
+	fmt.Fprintf(w, "\nNext, from the source folder:\n")
+	fmt.Fprintf(w, "  go run ./cmd/plumbline runs --db %s\n", res.Database)
+	fmt.Fprintf(w, "  go run ./cmd/plumbline history --db %s --metric duration_modified --portfolio %s\n", res.Database, res.Latest[0].Portfolio)
+	fmt.Fprintf(w, "  go run ./cmd/plumbline verify --db %s %d\n", res.Database, res.Latest[0].RunID)
 	fmt.Fprintln(w, "Figures are model estimates on invented data, not investment advice.")
 	return nil
 }

@@ -10,6 +10,7 @@ import (
 	"log/slog"
 	"os"
 	"os/signal"
+	"reflect"
 	"sort"
 	"strings"
 	"syscall"
@@ -65,6 +66,16 @@ var commands = map[string]command{}
 
 func register(c command) { commands[c.Name()] = c }
 
+// lookup returns a fresh zero value of the named command, so flag values
+// never carry from one run to the next (tests run many in one process).
+func lookup(name string) (command, bool) {
+	c, ok := commands[name]
+	if !ok {
+		return nil, false
+	}
+	return reflect.New(reflect.TypeOf(c).Elem()).Interface().(command), true
+}
+
 func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	env := &Env{Stdout: os.Stdout, Stderr: os.Stderr, Getenv: os.Getenv}
@@ -81,7 +92,7 @@ func run(ctx context.Context, env *Env, args []string) int {
 	}
 	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
 		if len(args) > 1 {
-			if c, ok := commands[args[1]]; ok {
+			if c, ok := lookup(args[1]); ok {
 				fmt.Fprint(env.Stdout, c.Usage())
 				return exitOK
 			}
@@ -96,7 +107,7 @@ func run(ctx context.Context, env *Env, args []string) int {
 		fmt.Fprintf(env.Stdout, "plumbline %s\n", version())
 		return exitOK
 	}
-	c, ok := commands[args[0]]
+	c, ok := lookup(args[0])
 	if !ok {
 		fmt.Fprintf(env.Stderr, "plumbline: unknown command %q; run 'plumbline --help' for the list\n", args[0])
 		return exitUsage

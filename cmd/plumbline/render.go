@@ -4,7 +4,6 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"os"
 
 	"plumbline/jobs"
 )
@@ -63,10 +62,10 @@ func (c *renderCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if out == "" {
 		out = fmt.Sprintf("run%d.pdf", id)
 	}
-	if err := os.WriteFile(out, pdf, 0o644); err != nil {
+	if err := jobs.WriteFile(out, pdf, 0o644); err != nil {
 		return err
 	}
-	sum := jobsSHA(pdf)
+	sum := jobs.SHA256Hex(pdf)
 	switch {
 	case run.PDFSHA256 == "":
 		if _, err := db.AttachPDF(ctx, id, pdf, pages); err != nil {

@@ -152,7 +152,11 @@ func printRun(env *Env, run *store.Run, doc *pack.Document) error {
 	if len(doc.DataQuality) > 0 {
 		fmt.Fprintln(w, "\nData quality")
 		for _, f := range doc.DataQuality {
-			fmt.Fprintf(w, "  %s %s: %s\n", f.Kind, f.ID, f.Detail)
+			if f.ID != "" {
+				fmt.Fprintf(w, "  %s %s: %s\n", f.Kind, f.ID, f.Detail)
+			} else {
+				fmt.Fprintf(w, "  %s: %s\n", f.Kind, f.Detail)
+			}
 		}
 	}
 	return nil

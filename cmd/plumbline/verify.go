@@ -30,8 +30,9 @@ func (c *verifyCmd) flags() *flag.FlagSet {
 
 func (c *verifyCmd) Usage() string {
 	return usageText("verify RUN [--json]", `
-Recomputes a stored run from the inputs now in the database with the
-configuration stored with the run, and compares the input hash, every stored
+Recomputes a stored run from its inputs as they stood when it was made (every
+row ingested up to the run's ledger mark) with the configuration stored with
+the run, and compares the input hash, every stored
 metric, the full results document and the PDF (re-rendered) with what was
 stored. Prints "identical" or each metric that differs. Exit code 0 when
 identical, 3 when anything differs, 1 when the recomputation itself failed.`, c.flags())

@@ -214,6 +214,10 @@ func (c *Config) validateDaemon() Errors {
 		names[h.Name] = true
 		if u, err := url.Parse(strings.ReplaceAll(h.URL, "{date}", "2000-01-01")); err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" {
 			add(c.errAt(key("url"), "%q is not an http or https URL", h.URL))
+		} else if u.User != nil {
+			// The URL is logged, recorded with each fetch and stored with
+			// every run's configuration: it must carry no credentials.
+			add(c.errAt(key("url"), "a user name or password in the URL would end up in logs and stored runs; remove it"))
 		}
 		if h.Timeout.d <= 0 {
 			add(c.errAt(key("timeout"), "must be positive"))

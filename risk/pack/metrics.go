@@ -10,38 +10,41 @@ import (
 )
 
 // Headline metric names: the keys of HistoryPoint.Metrics and the
-// DriftItem.Metric values. They are the names of the limits package
-// (limits.Metrics) where it has the measure; value and returns are added.
+// DriftItem.Metric values, and the names readers (the report, the e-mails,
+// the history command) look figures up by. They are the names of the
+// limits package (limits.Metrics) where it has the measure; value and
+// returns are added. VolatilityMetric and LossMetric name the others.
 const (
-	hValue       = "value"                  // market value incl. cash, currency
-	hReturnWeek  = "return_week"            // trailing-week TWR, decimal
-	hReturnMTD   = "return_mtd"             // TWR month to date
-	hReturnQTD   = "return_qtd"             // TWR quarter to date
-	hReturnYTD   = "return_ytd"             // TWR year to date
-	hReturnSI    = "return_since_inception" // TWR since inception, cumulative
-	hEWMA        = "volatility_ewma_ann"    // annualised, decimal
-	hDurModified = "duration_modified"      // years
-	hDurMacaulay = "duration_macaulay"      // years
-	hDurEmp      = "duration_empirical"     // years
-	hConvexity   = "convexity"              // years squared
-	hGrowthDur   = "growth_duration"        // years
-	hBeta        = "beta"                   // value-weighted CAPM beta
-	hTracking    = "tracking_error_ann"     // annualised, decimal
-	hMaxDrawdown = "max_drawdown"           // negative decimal
-	hHHI         = "hhi"                    // sum of squared weights
-	hMaxName     = "max_single_name_weight" // decimal
+	MetricValue          = "value"                  // market value incl. cash, currency
+	MetricReturnWeek     = "return_week"            // trailing-week TWR, decimal
+	MetricReturnMTD      = "return_mtd"             // TWR month to date
+	MetricReturnQTD      = "return_qtd"             // TWR quarter to date
+	MetricReturnYTD      = "return_ytd"             // TWR year to date
+	MetricReturnSI       = "return_since_inception" // TWR since inception, cumulative
+	MetricEWMA           = "volatility_ewma_ann"    // annualised, decimal
+	MetricDurModified    = "duration_modified"      // years
+	MetricDurMacaulay    = "duration_macaulay"      // years
+	MetricDurEmpirical   = "duration_empirical"     // years
+	MetricConvexity      = "convexity"              // years squared
+	MetricGrowthDuration = "growth_duration"        // years
+	MetricBeta           = "beta"                   // value-weighted CAPM beta
+	MetricTrackingError  = "tracking_error_ann"     // annualised, decimal
+	MetricMaxDrawdown    = "max_drawdown"           // since inception, negative decimal
+	MetricHHI            = "hhi"                    // sum of squared weights
+	MetricMaxSingleName  = "max_single_name_weight" // decimal
 )
 
-// volatilityName is the annualised volatility over a window,
-// "volatility_ann_63d" (decimal).
-func volatilityName(windowDays int) string {
+// VolatilityMetric is the name of the annualised volatility over a
+// window, "volatility_ann_63d" (decimal).
+func VolatilityMetric(windowDays int) string {
 	return "volatility_ann_" + strconv.Itoa(windowDays) + "d"
 }
 
-// lossName is a VaR or ES figure's name, "var_99_1d", "es_975_1d": kind,
-// the confidence's percent digits and the horizon; methods other than
-// historical are named between kind and confidence, "var_normal_99_1d".
-func lossName(kind string, v *VaRFigure) string {
+// LossMetric is the name of a VaR or ES figure, "var_99_1d", "es_975_1d":
+// kind ("var", "es", "var_amount", ...), the confidence's percent digits
+// and the horizon; methods other than historical are named between kind
+// and confidence, "var_normal_99_1d".
+func LossMetric(kind string, v *VaRFigure) string {
 	m := ""
 	if v.Method != "historical" {
 		m = v.Method + "_"
@@ -62,14 +65,14 @@ func Headline(doc *Document) map[string]float64 {
 		}
 	}
 	s := &doc.Summary
-	m[hValue] = s.Value
+	m[MetricValue] = s.Value
 	r := &s.Returns
-	put(hReturnWeek, r.Week)
-	put(hReturnMTD, r.MonthToDate)
-	put(hReturnQTD, r.QuarterToDate)
-	put(hReturnYTD, r.YearToDate)
-	put(hReturnSI, r.SinceInception)
-	put(hEWMA, s.EWMAVolatility)
+	put(MetricReturnWeek, r.Week)
+	put(MetricReturnMTD, r.MonthToDate)
+	put(MetricReturnQTD, r.QuarterToDate)
+	put(MetricReturnYTD, r.YearToDate)
+	put(MetricReturnSI, r.SinceInception)
+	put(MetricEWMA, s.EWMAVolatility)
 	if len(s.Volatility) > 0 {
 		w := s.Volatility[0]
 		for _, x := range s.Volatility {
@@ -77,27 +80,27 @@ func Headline(doc *Document) map[string]float64 {
 				w = x
 			}
 		}
-		put(volatilityName(w.WindowDays), w.Discrete)
+		put(VolatilityMetric(w.WindowDays), w.Discrete)
 	}
 	if v := varFigure(doc, "historical", 0.99, 1); v != nil {
-		m[lossName("var", v)], m[lossName("es", v)] = v.VaR, v.ES
+		m[LossMetric("var", v)], m[LossMetric("es", v)] = v.VaR, v.ES
 	}
 	if v := varFigure(doc, "historical", 0.975, 1); v != nil {
-		m[lossName("es", v)] = v.ES
+		m[LossMetric("es", v)] = v.ES
 	}
-	put(hDurModified, s.ModifiedDuration)
-	put(hDurMacaulay, s.MacaulayDuration)
+	put(MetricDurModified, s.ModifiedDuration)
+	put(MetricDurMacaulay, s.MacaulayDuration)
 	if s.Empirical != nil {
-		m[hDurEmp] = s.Empirical.Value
+		m[MetricDurEmpirical] = s.Empirical.Value
 	}
-	put(hConvexity, s.Convexity)
-	put(hGrowthDur, s.GrowthDuration)
-	put(hBeta, s.Beta)
-	put(hTracking, s.TrackingError)
-	put(hMaxDrawdown, s.MaxDrawdown)
+	put(MetricConvexity, s.Convexity)
+	put(MetricGrowthDuration, s.GrowthDuration)
+	put(MetricBeta, s.Beta)
+	put(MetricTrackingError, s.TrackingError)
+	put(MetricMaxDrawdown, s.MaxDrawdown)
 	if len(doc.Holdings) > 0 {
-		m[hHHI] = doc.Concentration.HHI
-		m[hMaxName] = doc.Concentration.MaxSingleName
+		m[MetricHHI] = doc.Concentration.HHI
+		m[MetricMaxSingleName] = doc.Concentration.MaxSingleName
 	}
 	return m
 }
@@ -157,47 +160,47 @@ func Metrics(doc *Document) []Metric {
 	add(P, "", "cash", s.Cash)
 	add(P, "", "holding_count", float64(s.HoldingCount))
 	r := &s.Returns
-	opt(P, "", hReturnWeek, r.Week)
-	opt(P, "", hReturnMTD, r.MonthToDate)
-	opt(P, "", hReturnQTD, r.QuarterToDate)
-	opt(P, "", hReturnYTD, r.YearToDate)
-	opt(P, "", hReturnSI, r.SinceInception)
+	opt(P, "", MetricReturnWeek, r.Week)
+	opt(P, "", MetricReturnMTD, r.MonthToDate)
+	opt(P, "", MetricReturnQTD, r.QuarterToDate)
+	opt(P, "", MetricReturnYTD, r.YearToDate)
+	opt(P, "", MetricReturnSI, r.SinceInception)
 	opt(P, "", "return_si_annualised", r.SinceInceptionAnn)
 	opt(P, "", "benchmark_return_week", r.BenchmarkWeek)
 	opt(P, "", "benchmark_return_ytd", r.BenchmarkYearToDate)
 	for _, w := range s.Volatility {
-		opt(P, "", volatilityName(w.WindowDays), w.Discrete)
-		opt(P, "", "log_"+volatilityName(w.WindowDays), w.Log)
+		opt(P, "", VolatilityMetric(w.WindowDays), w.Discrete)
+		opt(P, "", "log_"+VolatilityMetric(w.WindowDays), w.Log)
 		opt(P, "", "dollar_volatility_"+strconv.Itoa(w.WindowDays)+"d", w.Dollar)
 	}
-	opt(P, "", hEWMA, s.EWMAVolatility)
-	opt(P, "", hDurModified, s.ModifiedDuration)
-	opt(P, "", hDurMacaulay, s.MacaulayDuration)
-	opt(P, "", hConvexity, s.Convexity)
+	opt(P, "", MetricEWMA, s.EWMAVolatility)
+	opt(P, "", MetricDurModified, s.ModifiedDuration)
+	opt(P, "", MetricDurMacaulay, s.MacaulayDuration)
+	opt(P, "", MetricConvexity, s.Convexity)
 	opt(P, "", "dollar_duration_01", s.DollarDuration01)
-	opt(P, "", hGrowthDur, s.GrowthDuration)
+	opt(P, "", MetricGrowthDuration, s.GrowthDuration)
 	opt(P, "", "growth_convexity", s.GrowthConvexity)
-	opt(P, "", hBeta, s.Beta)
+	opt(P, "", MetricBeta, s.Beta)
 	opt(P, "", "duration_level", s.LevelDuration)
 	opt(P, "", "duration_slope", s.SlopeDuration)
 	opt(P, "", "duration_curvature", s.CurvatureDuration)
-	reg(P, "", hDurEmp, s.Empirical)
+	reg(P, "", MetricDurEmpirical, s.Empirical)
 	opt(P, "", "benchmark_beta", s.BenchmarkBeta)
-	opt(P, "", hTracking, s.TrackingError)
-	opt(P, "", hMaxDrawdown, s.MaxDrawdown)
+	opt(P, "", MetricTrackingError, s.TrackingError)
+	opt(P, "", MetricMaxDrawdown, s.MaxDrawdown)
 	opt(P, "", "current_drawdown", s.CurrentDrawdown)
 	c := &doc.Concentration
-	add(P, "", hHHI, c.HHI)
+	add(P, "", MetricHHI, c.HHI)
 	add(P, "", "effective_n", c.EffectiveN)
 	add(P, "", "top5_weight", c.Top5Weight)
-	add(P, "", hMaxName, c.MaxSingleName)
+	add(P, "", MetricMaxSingleName, c.MaxSingleName)
 	add(P, "", "max_sector_weight", c.MaxSector)
 	add(P, "", "cash_weight", c.CashWeight)
 	for _, v := range doc.VaR {
-		add(P, "", lossName("var", &v), v.VaR)
-		add(P, "", lossName("es", &v), v.ES)
-		add(P, "", lossName("var_amount", &v), v.VaRAmount)
-		add(P, "", lossName("es_amount", &v), v.ESAmount)
+		add(P, "", LossMetric("var", &v), v.VaR)
+		add(P, "", LossMetric("es", &v), v.ES)
+		add(P, "", LossMetric("var_amount", &v), v.VaRAmount)
+		add(P, "", LossMetric("es_amount", &v), v.ESAmount)
 	}
 	if b := doc.Backtest; b != nil {
 		add(P, "", "backtest_days", float64(b.Days))
@@ -216,11 +219,11 @@ func Metrics(doc *Document) []Metric {
 		opt(H, h.ID, "g", h.G)
 		opt(H, h.ID, "d0", h.D0)
 		opt(H, h.ID, "model_value", h.ModelValue)
-		opt(H, h.ID, hBeta, h.Beta)
-		opt(H, h.ID, hDurModified, h.ModDuration)
-		opt(H, h.ID, hDurMacaulay, h.MacDuration)
-		opt(H, h.ID, hConvexity, h.Convexity)
-		opt(H, h.ID, hGrowthDur, h.GrowthDur)
+		opt(H, h.ID, MetricBeta, h.Beta)
+		opt(H, h.ID, MetricDurModified, h.ModDuration)
+		opt(H, h.ID, MetricDurMacaulay, h.MacDuration)
+		opt(H, h.ID, MetricConvexity, h.Convexity)
+		opt(H, h.ID, MetricGrowthDuration, h.GrowthDur)
 		opt(H, h.ID, "growth_convexity", h.GrowthConv)
 		opt(H, h.ID, "duration_level", h.LevelDur)
 		opt(H, h.ID, "duration_slope", h.SlopeDur)
@@ -228,7 +231,7 @@ func Metrics(doc *Document) []Metric {
 		opt(H, h.ID, "contrib_duration", h.ContribDuration)
 		opt(H, h.ID, "contrib_growth_duration", h.ContribGrowthDuration)
 		opt(H, h.ID, "numerical_error", h.NumericalError)
-		reg(H, h.ID, hDurEmp, h.Empirical)
+		reg(H, h.ID, MetricDurEmpirical, h.Empirical)
 		if e := h.Explain; e != nil {
 			add(H, h.ID, "explain_taylor", e.Taylor)
 			add(H, h.ID, "explain_full", e.Full)

@@ -91,7 +91,8 @@ func BuildIndex(method IndexMethod, cons []Constituent, days []time.Time, opt In
 	if len(cons) == 0 || len(days) == 0 {
 		return Index{}, fmt.Errorf("returns: index: %d constituents, %d days: %w", len(cons), len(days), ErrEmpty)
 	}
-	if err := checkDates("index days", days); err != nil {
+	dd, err := dayNumbers("index days", days)
+	if err != nil {
 		return Index{}, err
 	}
 	base := opt.Base
@@ -105,11 +106,11 @@ func BuildIndex(method IndexMethod, cons []Constituent, days []time.Time, opt In
 	cur := make([]priceCursor, n)
 	shares := make([]float64, n)
 	for i, c := range cons {
-		if err := ValidatePrices(c.Prices); err != nil {
+		var err error
+		if cur[i], err = newPriceCursor(c.Prices); err != nil {
 			return Index{}, fmt.Errorf("returns: index: %s: %w", c.ID, err)
 		}
-		cur[i] = priceCursor{prices: c.Prices}
-		cur[i].reset(days[0])
+		cur[i].reset(dd[0])
 		if cur[i].close == 0 {
 			return Index{}, fmt.Errorf("returns: index: %s on %s: %w", c.ID, days[0].Format(time.DateOnly), ErrMissingPrice)
 		}
@@ -139,12 +140,15 @@ func BuildIndex(method IndexMethod, cons []Constituent, days []time.Time, opt In
 	split := make([]float64, n) // split factor of the day
 	prev := make([]float64, n)  // previous closes
 	for t := 1; t < len(days); t++ {
+		d := dd[t]
 		for i := range cur {
-			p0 := cur[i].close
+			c := &cur[i]
+			p0 := c.close
 			prev[i] = p0
 			gi, si := 1.0, 1.0
 			last := p0
-			cur[i].advance(days[t], func(p PricePoint) {
+			for c.due(d) {
+				p := c.pass()
 				s := p.Split()
 				num := p.Close
 				if opt.TotalReturn {
@@ -153,7 +157,7 @@ func BuildIndex(method IndexMethod, cons []Constituent, days []time.Time, opt In
 				gi *= s * num / last
 				si *= s
 				last = p.Close
-			})
+			}
 			g[i], split[i] = gi, si
 		}
 		var r float64

@@ -58,23 +58,31 @@ func Valuate(b Book, days []time.Time) (ValueSeries, error) {
 	if len(b.Snapshots) == 0 {
 		return ValueSeries{}, fmt.Errorf("returns: valuation: no snapshots: %w", ErrNoSnapshot)
 	}
-	if err := checkDates("valuation days", days); err != nil {
+	// Dates become day numbers once; the loops below compare integers.
+	dd, err := dayNumbers("valuation days", days)
+	if err != nil {
 		return ValueSeries{}, err
 	}
 	snaps := slices.Clone(b.Snapshots)
 	slices.SortStableFunc(snaps, func(a, c Snapshot) int { return int(day(a.Date) - day(c.Date)) })
-	if err := checkDates("snapshots", snapDates(snaps)); err != nil {
+	sd, err := dayNumbers("snapshots", snapDates(snaps))
+	if err != nil {
 		return ValueSeries{}, err
 	}
 	flows := slices.Clone(b.Flows)
 	slices.SortStableFunc(flows, func(a, c Flow) int { return int(day(a.Date) - day(c.Date)) })
-	for _, f := range flows {
+	fd := make([]int64, len(flows))
+	for i, f := range flows {
 		if !isFinite(f.Amount) {
 			return ValueSeries{}, fmt.Errorf("returns: valuation: flow %s: amount %v: %w", f.Date.Format(time.DateOnly), f.Amount, ErrNonFinite)
 		}
+		fd[i] = day(f.Date)
 	}
 
-	cursors := map[string]*priceCursor{}
+	// Each security held in any snapshot gets a dense number k and a price
+	// cursor cur[k], so the daily loop indexes slices instead of maps.
+	index := map[string]int{}
+	var cur []priceCursor
 	for _, s := range snaps {
 		if !isFinite(s.Cash) {
 			return ValueSeries{}, fmt.Errorf("returns: valuation: snapshot %s: cash %v: %w", s.Date.Format(time.DateOnly), s.Cash, ErrNonFinite)
@@ -83,14 +91,15 @@ func Valuate(b Book, days []time.Time) (ValueSeries, error) {
 			if !isFinite(q) || q < 0 {
 				return ValueSeries{}, fmt.Errorf("returns: valuation: snapshot %s: %s quantity %v: %w", s.Date.Format(time.DateOnly), id, q, ErrQuantity)
 			}
-			if _, ok := cursors[id]; ok {
+			if _, ok := index[id]; ok {
 				continue
 			}
-			p := b.Prices[id]
-			if err := ValidatePrices(p); err != nil {
+			c, err := newPriceCursor(b.Prices[id])
+			if err != nil {
 				return ValueSeries{}, fmt.Errorf("returns: valuation: %s: %w", id, err)
 			}
-			cursors[id] = &priceCursor{prices: p}
+			index[id] = len(cur)
+			cur = append(cur, c)
 		}
 	}
 
@@ -100,10 +109,10 @@ func Valuate(b Book, days []time.Time) (ValueSeries, error) {
 		Flows:  make([]float64, len(days)),
 	}
 	// Flows reported per valuation day.
-	fi := sort.Search(len(flows), func(i int) bool { return day(flows[i].Date) >= day(days[0]) })
-	for t, d := range days {
-		for fi < len(flows) && day(flows[fi].Date) <= day(d) {
-			if t > 0 || day(flows[fi].Date) == day(d) {
+	fi := sort.Search(len(flows), func(i int) bool { return fd[i] >= dd[0] })
+	for t, d := range dd {
+		for fi < len(flows) && fd[fi] <= d {
+			if t > 0 || fd[fi] == d {
 				vs.Flows[t] += flows[fi].Amount
 			}
 			fi++
@@ -111,53 +120,59 @@ func Valuate(b Book, days []time.Time) (ValueSeries, error) {
 	}
 
 	var (
-		si    = -1 // active snapshot
-		ids   []string
-		qty   map[string]float64
+		si    = -1      // active snapshot
+		ids   []string  // its securities, sorted
+		held  []int     // held[j]: dense number of ids[j]
+		qty   []float64 // qty[j]: shares of ids[j]
 		cash  float64
 		fNext int // next flow to credit to cash
 	)
-	for t, d := range days {
+	for t, d := range dd {
 		// Switch to the latest snapshot on or before d.
 		ns := si
-		for ns+1 < len(snaps) && day(snaps[ns+1].Date) <= day(d) {
+		for ns+1 < len(snaps) && sd[ns+1] <= d {
 			ns++
 		}
 		if ns < 0 {
-			return ValueSeries{}, fmt.Errorf("returns: valuation: %s: %w", d.Format(time.DateOnly), ErrNoSnapshot)
+			return ValueSeries{}, fmt.Errorf("returns: valuation: %s: %w", days[t].Format(time.DateOnly), ErrNoSnapshot)
 		}
 		if ns != si {
 			si = ns
 			s := snaps[si]
-			qty = make(map[string]float64, len(s.Quantities))
 			ids = ids[:0]
-			for id, q := range s.Quantities {
-				qty[id] = q
+			for id := range s.Quantities {
 				ids = append(ids, id)
-				cursors[id].reset(s.Date)
 			}
 			slices.Sort(ids)
+			held, qty = held[:0], qty[:0]
+			for _, id := range ids {
+				k := index[id]
+				held = append(held, k)
+				qty = append(qty, s.Quantities[id])
+				cur[k].reset(sd[si])
+			}
 			cash = s.Cash
-			fNext = sort.Search(len(flows), func(i int) bool { return day(flows[i].Date) > day(s.Date) })
+			fNext = sort.Search(len(flows), func(i int) bool { return fd[i] > sd[si] })
 		}
-		for fNext < len(flows) && day(flows[fNext].Date) <= day(d) {
+		for fNext < len(flows) && fd[fNext] <= d {
 			cash += flows[fNext].Amount
 			fNext++
 		}
 		var v float64
-		for _, id := range ids {
-			c := cursors[id]
-			ok := c.advance(d, func(p PricePoint) {
-				qty[id] *= p.Split()
-				cash += qty[id] * p.Dividend
-			})
-			if !ok {
-				if qty[id] == 0 {
+		for j, k := range held {
+			c := &cur[k]
+			for c.due(d) {
+				p := c.pass()
+				qty[j] *= p.Split()
+				cash += qty[j] * p.Dividend
+			}
+			if !(c.close > 0) {
+				if qty[j] == 0 {
 					continue
 				}
-				return ValueSeries{}, fmt.Errorf("returns: valuation: %s on %s: %w", id, d.Format(time.DateOnly), ErrMissingPrice)
+				return ValueSeries{}, fmt.Errorf("returns: valuation: %s on %s: %w", ids[j], days[t].Format(time.DateOnly), ErrMissingPrice)
 			}
-			v += qty[id] * c.close
+			v += qty[j] * c.close
 		}
 		vs.Values[t] = v + cash
 	}

@@ -25,21 +25,40 @@ func (p PricePoint) Split() float64 {
 // ValidatePrices checks a price history: dates strictly increasing, closes
 // positive, dividends non-negative, split ratios positive (or 0 for none),
 // all finite.
-func ValidatePrices(prices []PricePoint) error {
-	for i, p := range prices {
-		d := p.Date.Format(time.DateOnly)
-		if !isFinite(p.Close) || p.Close <= 0 {
-			return fmt.Errorf("returns: price %s: close %v: %w", d, p.Close, ErrPrice)
+func ValidatePrices(prices []PricePoint) error { return checkPrices(prices, nil) }
+
+// priceDays validates prices as ValidatePrices does and returns the day
+// number of each point.
+func priceDays(prices []PricePoint) ([]int64, error) {
+	days := make([]int64, len(prices))
+	if err := checkPrices(prices, days); err != nil {
+		return nil, err
+	}
+	return days, nil
+}
+
+// checkPrices is ValidatePrices, also storing day(prices[i].Date) in
+// days[i] when days is not nil. Dates are formatted only for an error:
+// formatting every one cost more than all the checks.
+func checkPrices(prices []PricePoint, days []int64) error {
+	var prev int64
+	for i := range prices {
+		p := &prices[i]
+		d := day(p.Date)
+		if days != nil {
+			days[i] = d
 		}
-		if !isFinite(p.Dividend) || p.Dividend < 0 {
-			return fmt.Errorf("returns: price %s: dividend %v: %w", d, p.Dividend, ErrDividend)
+		switch {
+		case !isFinite(p.Close) || p.Close <= 0:
+			return fmt.Errorf("returns: price %s: close %v: %w", p.Date.Format(time.DateOnly), p.Close, ErrPrice)
+		case !isFinite(p.Dividend) || p.Dividend < 0:
+			return fmt.Errorf("returns: price %s: dividend %v: %w", p.Date.Format(time.DateOnly), p.Dividend, ErrDividend)
+		case !isFinite(p.SplitRatio) || p.SplitRatio < 0:
+			return fmt.Errorf("returns: price %s: split ratio %v: %w", p.Date.Format(time.DateOnly), p.SplitRatio, ErrSplit)
+		case i > 0 && d <= prev:
+			return fmt.Errorf("returns: price %s after %s: %w", p.Date.Format(time.DateOnly), prices[i-1].Date.Format(time.DateOnly), ErrOrder)
 		}
-		if !isFinite(p.SplitRatio) || p.SplitRatio < 0 {
-			return fmt.Errorf("returns: price %s: split ratio %v: %w", d, p.SplitRatio, ErrSplit)
-		}
-		if i > 0 && day(p.Date) <= day(prices[i-1].Date) {
-			return fmt.Errorf("returns: price %s after %s: %w", d, prices[i-1].Date.Format(time.DateOnly), ErrOrder)
-		}
+		prev = d
 	}
 	return nil
 }
