@@ -25,7 +25,7 @@ func (c *demoCmd) Synopsis() string { return "run the whole job end to end on a 
 
 func (c *demoCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.fs.StringVar(&c.dir, "dir", "demo", "write everything under `DIR`")
 		c.fs.IntVar(&c.weeks, "weeks", 30, "weekly runs per portfolio (at least 26)")
 		c.fs.BoolVar(&c.json, "json", false, "print the outcome as JSON")

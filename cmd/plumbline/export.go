@@ -21,7 +21,7 @@ func (c *exportCmd) Synopsis() string { return "write a run's inputs, results an
 
 func (c *exportCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.BoolVar(&c.json, "json", false, "print the list of files as JSON")
 	}

@@ -18,8 +18,9 @@ import (
 // errHelp is returned by parseArgs after printing the usage for --help.
 var errHelp = &exitError{code: exitOK}
 
-// newFlags returns a flag set whose errors and --help print c's usage.
-func newFlags(c command, env *Env) *flag.FlagSet {
+// newFlags returns a silent flag set for c: parseArgs reports its errors
+// and prints c's usage for --help.
+func newFlags(c command) *flag.FlagSet {
 	fs := flag.NewFlagSet(c.Name(), flag.ContinueOnError)
 	fs.SetOutput(io.Discard)
 	return fs

@@ -25,7 +25,7 @@ func (c *historyCmd) Synopsis() string { return "print a metric's time series ac
 
 func (c *historyCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.metric, "metric", "", "metric `NAME`, e.g. duration_modified (required)")
 		c.fs.StringVar(&c.portfolio, "portfolio", "", "only portfolio `ID`")

@@ -31,7 +31,7 @@ func (c *ingestCmd) Synopsis() string { return "validate and load input CSV file
 
 func (c *ingestCmd) flags(env *Env) *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, env)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.quarantine, "quarantine", "", "move rejected files into `DIR`")
 		c.fs.BoolVar(&c.json, "json", false, "print the results as JSON")
@@ -65,11 +65,7 @@ func (c *ingestCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if len(paths) == 0 {
 		return usageError("no files or folders to ingest (see 'plumbline ingest --help')")
 	}
-	cfg, err := c.load()
-	if err != nil {
-		return err
-	}
-	db, err := store.Open(ctx, cfg.Database)
+	cfg, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}

@@ -23,7 +23,7 @@ func (c *initCmd) Synopsis() string { return "write a commented default configur
 
 func (c *initCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 	}
 	return c.fs
 }

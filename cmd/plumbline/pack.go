@@ -6,8 +6,6 @@ import (
 	"fmt"
 	"text/tabwriter"
 
-	"golang.org/x/term"
-
 	"plumbline/jobs"
 )
 
@@ -30,7 +28,7 @@ func (c *packCmd) Synopsis() string { return "compute, store and render each por
 
 func (c *packCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.asOf, "as-of", "", "pack `DATE` (YYYY-MM-DD; default: the latest date with complete data)")
 		c.fs.Var(&c.portfolios, "portfolio", "portfolio `ID` (repeatable; default: all)")
@@ -76,7 +74,7 @@ func (c *packCmd) Run(ctx context.Context, env *Env, args []string) error {
 	}
 	opt := jobs.PackOptions{AsOf: asOf, Portfolios: c.portfolios, Reason: c.reason, Render: !c.noPDF,
 		OutDir: out, Queue: c.queue, Version: version(), Logger: env.Logger}
-	if f, ok := env.Stderr.(interface{ Fd() uintptr }); ok && term.IsTerminal(int(f.Fd())) {
+	if isTerminal(env.Stderr) {
 		opt.Progress = func(done, total int, id string) {
 			fmt.Fprintf(env.Stderr, "\rpacked %d/%d (%s)   ", done, total, id)
 			if done == total {

@@ -21,7 +21,7 @@ func (c *renderCmd) Synopsis() string { return "re-render a stored run's PDF" }
 
 func (c *renderCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.out, "out", "", "write the PDF to `FILE` (default: run<ID>.pdf)")
 	}

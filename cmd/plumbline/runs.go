@@ -24,7 +24,7 @@ func (c *runsCmd) Synopsis() string { return "list stored pack runs" }
 
 func (c *runsCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.portfolio, "portfolio", "", "only runs of portfolio `ID`")
 		c.fs.StringVar(&c.from, "from", "", "only as-of dates on or after `DATE`")

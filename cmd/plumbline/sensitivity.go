@@ -30,7 +30,7 @@ func (c *sensitivityCmd) Synopsis() string {
 
 func (c *sensitivityCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.asOf, "as-of", "", "as-of `DATE` (YYYY-MM-DD; default: the latest date with complete data)")
 		c.fs.Var(&c.portfolios, "portfolio", "portfolio `ID` (repeatable; default: all)")

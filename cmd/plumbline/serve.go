@@ -21,7 +21,7 @@ func (*serveCmd) Synopsis() string {
 }
 
 func (c *serveCmd) flags(env *Env, cm *common) *flag.FlagSet {
-	fs := newFlags(c, env)
+	fs := newFlags(c)
 	cm.register(fs)
 	return fs
 }
@@ -52,11 +52,7 @@ func (c *serveCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if len(pos) > 0 {
 		return usageError("serve takes no arguments (see 'plumbline serve --help')")
 	}
-	cfg, err := cm.load()
-	if err != nil {
-		return err
-	}
-	db, err := store.Open(ctx, cfg.Database)
+	cfg, db, err := cm.open(ctx)
 	if err != nil {
 		return err
 	}

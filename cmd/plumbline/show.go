@@ -26,7 +26,7 @@ func (c *showCmd) Synopsis() string { return "print one stored run" }
 
 func (c *showCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.BoolVar(&c.json, "json", false, "print the run record and its full results document as JSON")
 	}

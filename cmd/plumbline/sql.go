@@ -24,7 +24,7 @@ func (c *sqlCmd) Synopsis() string { return "run a read-only SQL query against t
 
 func (c *sqlCmd) flags(env *Env) *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, env)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.BoolVar(&c.json, "json", false, "print the result as JSON")
 		c.fs.IntVar(&c.maxRows, "max-rows", 10000, "stop after `N` rows (0: no cap)")

@@ -30,7 +30,7 @@ func (c *statsCmd) Synopsis() string {
 
 func (c *statsCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.StringVar(&c.asOf, "as-of", "", "as-of `DATE` (YYYY-MM-DD; default: the latest date with complete data, or for --security its last price)")
 		c.fs.Var(&c.portfolios, "portfolio", "portfolio `ID` (repeatable; default: all)")

@@ -21,7 +21,7 @@ func (c *verifyCmd) Synopsis() string { return "recompute a stored run and repor
 
 func (c *verifyCmd) flags() *flag.FlagSet {
 	if c.fs == nil {
-		c.fs = newFlags(c, nil)
+		c.fs = newFlags(c)
 		c.common.register(c.fs)
 		c.fs.BoolVar(&c.json, "json", false, "print JSON")
 	}
