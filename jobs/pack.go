@@ -1,7 +1,6 @@
 package jobs
 
 import (
-	"bytes"
 	"context"
 	"encoding/json"
 	"errors"
@@ -14,7 +13,6 @@ import (
 	"time"
 
 	"plumbline/jobs/config"
-	"plumbline/report"
 	"plumbline/risk/pack"
 	"plumbline/store"
 )
@@ -80,6 +78,71 @@ func LatestCompleteDate(ctx context.Context, db *store.DB) (time.Time, error) {
 	return best, nil
 }
 
+// packDay is what every portfolio's pack of one date shares: the store
+// view at one ledger mark, the date, the portfolios, the parameters and
+// the market data.
+type packDay struct {
+	view   *store.DB
+	asOf   time.Time
+	ports  []store.Portfolio
+	params pack.Params
+	market *market
+}
+
+// prepareDay takes the ledger mark and reads, through it, what the packs
+// of asOf (zero: the latest complete date) for the portfolios ids (empty:
+// all) share. Every input is read at that mark, which the runs record: a
+// file ingested meanwhile (the daemon's drop folder) is left for the next
+// pack, and verify can read the same rows later.
+func prepareDay(ctx context.Context, db *store.DB, cfg *config.Config, asOf time.Time, ids []string) (*packDay, error) {
+	mark, err := db.LedgerMark(ctx)
+	if err != nil {
+		return nil, err
+	}
+	view := db.At(mark)
+	if asOf.IsZero() {
+		if asOf, err = LatestCompleteDate(ctx, view); err != nil {
+			return nil, err
+		}
+	}
+	ports, err := selectPortfolios(ctx, view, ids)
+	if err != nil {
+		return nil, err
+	}
+	params, err := Params(cfg)
+	if err != nil {
+		return nil, err
+	}
+	m, err := loadMarket(ctx, view, asOf)
+	if err != nil {
+		return nil, err
+	}
+	// Scenario sectors must name sectors the loaded securities have.
+	var known []string
+	seen := map[string]bool{}
+	for _, s := range m.securities {
+		if !seen[s.Sector] {
+			seen[s.Sector] = true
+			known = append(known, s.Sector)
+		}
+	}
+	sort.Strings(known)
+	if err := cfg.CheckSectors(known); err != nil {
+		return nil, err
+	}
+	return &packDay{view: view, asOf: asOf, ports: ports, params: params, market: m}, nil
+}
+
+// portfolioInputs gathers one portfolio's inputs on top of the day's
+// market data, with the drift history as it stands now.
+func portfolioInputs(ctx context.Context, db, view *store.DB, cfg *config.Config, m *market, p store.Portfolio) (*pack.Inputs, error) {
+	hist, err := history(ctx, db, p.ID, m.asOf, 0)
+	if err != nil {
+		return nil, err
+	}
+	return gather(ctx, view, m, p, cfg.BaseCurrency, hist)
+}
+
 // BuildPacks computes, persists and (optionally) renders and queues the
 // pack of each portfolio on one as-of date. Each portfolio is one
 // transaction: a failure of one leaves the others' runs in place and is
@@ -93,53 +156,16 @@ func BuildPacks(ctx context.Context, db *store.DB, cfg *config.Config, opt PackO
 	if log == nil {
 		log = slog.New(slog.DiscardHandler)
 	}
-	// Every input is read at the ledger mark taken here, which the runs
-	// record: a file ingested meanwhile (the daemon's drop folder) is left
-	// for the next pack, and verify can read the same rows later.
-	mark, err := db.LedgerMark(ctx)
+	day, err := prepareDay(ctx, db, cfg, opt.AsOf, opt.Portfolios)
 	if err != nil {
 		return nil, err
 	}
-	in := db.At(mark)
-	asOf := opt.AsOf
-	if asOf.IsZero() {
-		if asOf, err = LatestCompleteDate(ctx, in); err != nil {
-			return nil, err
-		}
-	}
-	ports, err := selectPortfolios(ctx, in, opt.Portfolios)
-	if err != nil {
-		return nil, err
-	}
-	secs, err := in.Securities(ctx)
-	if err != nil {
-		return nil, err
-	}
-	sectors := map[string]bool{}
-	for _, s := range secs {
-		sectors[s.Sector] = true
-	}
-	var known []string
-	for s := range sectors {
-		known = append(known, s)
-	}
-	sort.Strings(known)
-	if err := cfg.CheckSectors(known); err != nil {
-		return nil, err
-	}
+	in, asOf, ports, params, m := day.view, day.asOf, day.ports, day.params, day.market
 	cfgJSON, err := cfg.Canonical()
 	if err != nil {
 		return nil, err
 	}
 	cfgHash, err := cfg.Hash()
-	if err != nil {
-		return nil, err
-	}
-	params, err := Params(cfg)
-	if err != nil {
-		return nil, err
-	}
-	m, err := loadMarket(ctx, in, asOf)
 	if err != nil {
 		return nil, err
 	}
@@ -230,11 +256,7 @@ type computedRun struct {
 // only reads, so portfolios may compute concurrently.
 func computeOne(ctx context.Context, db, view *store.DB, cfg *config.Config, m *market, p store.Portfolio,
 	params pack.Params, cfgJSON []byte, cfgHash string, opt PackOptions) (*computedRun, error) {
-	hist, err := history(ctx, db, p.ID, m.asOf, 0)
-	if err != nil {
-		return nil, err
-	}
-	in, err := gather(ctx, view, m, p, cfg.BaseCurrency, hist)
+	in, err := portfolioInputs(ctx, db, view, cfg, m, p)
 	if err != nil {
 		return nil, err
 	}
@@ -270,19 +292,21 @@ func storeOne(ctx context.Context, db *store.DB, cfg *config.Config, c *computed
 	var complete func(*store.Run) (*store.Completion, error)
 	if opt.Render || opt.Queue {
 		complete = func(r *store.Run) (*store.Completion, error) {
-			pdf, pages, err := RenderRun(r, cfg)
+			d, err := decodeRun(r)
+			if err != nil {
+				return nil, err
+			}
+			pdf, pages, err := d.render()
 			if err != nil {
 				return nil, err
 			}
 			c := &store.Completion{PDF: pdf, Pages: pages}
-			if opt.Queue {
-				msg, ok, err := mailFor(r, cfg, pdf)
+			if to := cfg.Recipients(r.PortfolioID); opt.Queue && len(to) > 0 {
+				msg, err := d.mail(to)
 				if err != nil {
 					return nil, err
 				}
-				if ok {
-					c.Outbox = append(c.Outbox, msg)
-				}
+				c.Outbox = append(c.Outbox, msg)
 			}
 			return c, nil
 		}
@@ -305,38 +329,12 @@ func storeOne(ctx context.Context, db *store.DB, cfg *config.Config, c *computed
 
 // RenderRun renders a stored run's PDF from its stored results and its
 // stored configuration only, so the same run renders to the same bytes.
-func RenderRun(r *store.Run, current *config.Config) ([]byte, int, error) {
-	var doc pack.Document
-	if err := json.Unmarshal(r.ResultsJSON, &doc); err != nil {
-		return nil, 0, fmt.Errorf("run %d: results: %w", r.ID, err)
-	}
-	if doc.Schema != pack.SchemaVersion {
-		return nil, 0, fmt.Errorf("run %d: results schema %q, this program reads %q", r.ID, doc.Schema, pack.SchemaVersion)
-	}
-	stored, err := config.FromCanonical(r.ConfigJSON)
+func RenderRun(r *store.Run) ([]byte, int, error) {
+	d, err := decodeRun(r)
 	if err != nil {
 		return nil, 0, err
 	}
-	meta := report.Meta{RunID: r.ID, Revision: r.Revision, CreatedAt: r.CreatedAt,
-		ProgramVersion: r.ProgramVersion, ConfigHash: r.ConfigHash, InputHash: r.InputHash,
-		Firm: stored.Report.Firm}
-	if r.Supersedes != 0 {
-		s := r.Supersedes
-		meta.Supersedes = &s
-	}
-	opt := report.Options{Paper: stored.Report.Paper, Sections: stored.Report.Sections}
-	if dir := stored.Report.TemplateDir; dir != "" {
-		opt.Texts = os.DirFS(dir)
-	}
-	var buf bytes.Buffer
-	if err := report.Render(&buf, &doc, meta, opt); err != nil {
-		return nil, 0, fmt.Errorf("run %d: render: %w", r.ID, err)
-	}
-	pages, err := report.PageCount(buf.Bytes())
-	if err != nil {
-		return nil, 0, err
-	}
-	return buf.Bytes(), pages, nil
+	return d.render()
 }
 
 // WritePDF writes a run's stored PDF into dir and returns its path.

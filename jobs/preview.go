@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"sort"
 	"time"
 
 	"plumbline/jobs/config"
@@ -29,40 +28,17 @@ func Preview(ctx context.Context, db *store.DB, cfg *config.Config, portfolioID 
 // ids (or of the store). A portfolio that fails is left out and its error
 // returned, joined with the others', after the rest are computed.
 func Previews(ctx context.Context, db *store.DB, cfg *config.Config, ids []string, asOf time.Time) ([]*pack.Document, error) {
-	// One ledger mark for every read, as BuildPacks takes, so a file
-	// ingested meanwhile cannot mix into some portfolios and not others.
-	mark, err := db.LedgerMark(ctx)
-	if err != nil {
-		return nil, err
-	}
-	view := db.At(mark)
-	if asOf.IsZero() {
-		if asOf, err = LatestCompleteDate(ctx, view); err != nil {
-			return nil, err
-		}
-	}
-	ports, err := selectPortfolios(ctx, view, ids)
-	if err != nil {
-		return nil, err
-	}
-	if err := checkStoreSectors(ctx, view, cfg); err != nil {
-		return nil, err
-	}
-	params, err := Params(cfg)
-	if err != nil {
-		return nil, err
-	}
-	m, err := loadMarket(ctx, view, asOf)
+	day, err := prepareDay(ctx, db, cfg, asOf, ids)
 	if err != nil {
 		return nil, err
 	}
 	var docs []*pack.Document
 	var errs []error
-	for _, p := range ports {
+	for _, p := range day.ports {
 		if err := ctx.Err(); err != nil {
 			return docs, err
 		}
-		doc, err := previewOne(ctx, db, view, cfg, m, p, params)
+		doc, err := previewOne(ctx, db, day, cfg, p)
 		if err != nil {
 			errs = append(errs, fmt.Errorf("portfolio %s: %w", p.ID, err))
 			continue
@@ -75,36 +51,13 @@ func Previews(ctx context.Context, db *store.DB, cfg *config.Config, ids []strin
 	return docs, errors.Join(errs...)
 }
 
-// previewOne is buildOne up to pack.Compute: the same history (runs, read
-// through db), inputs (read through view, db at the ledger mark) and
-// parameters, so the figures are the ones a pack of the date would store.
-func previewOne(ctx context.Context, db, view *store.DB, cfg *config.Config, m *market, p store.Portfolio, params pack.Params) (*pack.Document, error) {
-	hist, err := history(ctx, db, p.ID, m.asOf, 0)
+// previewOne is computeOne without storing: the same history, inputs
+// (read at the day's ledger mark) and parameters, so the figures are the
+// ones a pack of the date would store.
+func previewOne(ctx context.Context, db *store.DB, day *packDay, cfg *config.Config, p store.Portfolio) (*pack.Document, error) {
+	in, err := portfolioInputs(ctx, db, day.view, cfg, day.market, p)
 	if err != nil {
 		return nil, err
 	}
-	in, err := gather(ctx, view, m, p, cfg.BaseCurrency, hist)
-	if err != nil {
-		return nil, err
-	}
-	return pack.Compute(in, params)
-}
-
-// checkStoreSectors refuses scenario sectors that no loaded security has,
-// as BuildPacks does before computing.
-func checkStoreSectors(ctx context.Context, db *store.DB, cfg *config.Config) error {
-	secs, err := db.Securities(ctx)
-	if err != nil {
-		return err
-	}
-	seen := map[string]bool{}
-	var known []string
-	for _, s := range secs {
-		if !seen[s.Sector] {
-			seen[s.Sector] = true
-			known = append(known, s.Sector)
-		}
-	}
-	sort.Strings(known)
-	return cfg.CheckSectors(known)
+	return pack.Compute(in, day.params)
 }

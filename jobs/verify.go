@@ -115,7 +115,7 @@ func Verify(ctx context.Context, db *store.DB, runID int64) (*Verification, erro
 		return x.Metric < y.Metric
 	})
 	if run.PDFSHA256 != "" {
-		pdf, _, err := RenderRun(run, cfg)
+		pdf, _, err := RenderRun(run)
 		if err != nil {
 			return nil, err
 		}

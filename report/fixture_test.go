@@ -380,11 +380,11 @@ func fixtureDoc(nHold int) *pack.Document {
 
 	// Limits: one warning, one breach.
 	d.Limits = []pack.LimitStatus{
-		{Name: "Single name cap", Metric: "max_single_name_weight", Value: f64(d.Concentration.MaxSingleName), Status: "ok", Level: f64(0.15), Headroom: f64(0.15 - d.Concentration.MaxSingleName)},
-		{Name: "Sector cap", Metric: "max_sector_weight", Value: f64(0.237), Status: "warning", Level: f64(0.25), Headroom: f64(0.013)},
-		{Name: "Daily VaR budget", Metric: "var_99_1d", Value: f64(h.VaR), Status: "breach", Level: f64(0.015), Headroom: f64(0.015 - h.VaR)},
-		{Name: "Duration band", Metric: pack.MetricDurModified, Value: f64(modDur), Status: "ok", Level: f64(30), Headroom: f64(30 - modDur)},
-		{Name: "Cash floor", Metric: "cash_weight", Value: f64(cash / total), Status: "ok", Level: f64(0.01), Headroom: f64(cash/total - 0.01)},
+		{Name: "Single name cap", Metric: "max_single_name_weight", Value: f64(d.Concentration.MaxSingleName), Status: "ok", Side: "max", Level: f64(0.15), Headroom: f64(0.15 - d.Concentration.MaxSingleName)},
+		{Name: "Sector cap", Metric: "max_sector_weight", Value: f64(0.237), Status: "warning", Side: "max", Level: f64(0.25), Headroom: f64(0.013)},
+		{Name: "Daily VaR budget", Metric: "var_99_1d", Value: f64(h.VaR), Status: "breach", Side: "max", Level: f64(0.015), Headroom: f64(0.015 - h.VaR)},
+		{Name: "Duration band", Metric: pack.MetricDurModified, Value: f64(modDur), Status: "ok", Side: "max", Level: f64(30), Headroom: f64(30 - modDur)},
+		{Name: "Cash floor", Metric: "cash_weight", Value: f64(cash / total), Status: "ok", Side: "min", Level: f64(0.01), Headroom: f64(cash/total - 0.01)},
 		{Name: "Tracking error ceiling", Metric: pack.MetricTrackingError, Status: "no_data"},
 	}
 

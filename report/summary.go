@@ -44,31 +44,23 @@ func textData(doc *pack.Document, meta Meta, fsys fs.FS) (TextData, error) {
 // headlineVaR picks the VaR figure the summary shows: historical, 99%,
 // one day when present, else the first.
 func headlineVaR(doc *pack.Document) *pack.VaRFigure {
-	return findVaR(doc, 0.99)
+	if v := pack.FindVaR(doc, "historical", 0.99, 1); v != nil {
+		return v
+	}
+	if len(doc.VaR) > 0 {
+		return &doc.VaR[0]
+	}
+	return nil
 }
 
 // headlineES picks the expected shortfall the summary shows: historical,
 // 97.5%, one day when present (the level the limits use), else that of
 // the headline VaR.
 func headlineES(doc *pack.Document) *pack.VaRFigure {
-	for i, v := range doc.VaR {
-		if v.Method == "historical" && v.Confidence == 0.975 && v.HorizonDays == 1 {
-			return &doc.VaR[i]
-		}
+	if v := pack.FindVaR(doc, "historical", 0.975, 1); v != nil {
+		return v
 	}
 	return headlineVaR(doc)
-}
-
-func findVaR(doc *pack.Document, conf float64) *pack.VaRFigure {
-	for i, v := range doc.VaR {
-		if v.Method == "historical" && v.Confidence == conf && v.HorizonDays == 1 {
-			return &doc.VaR[i]
-		}
-	}
-	if len(doc.VaR) > 0 {
-		return &doc.VaR[0]
-	}
-	return nil
 }
 
 // headline builds the summary's figures with their change since the
@@ -303,21 +295,6 @@ func limitColumns() []column {
 	}
 }
 
-// limitSide tells whether a limit's breach level is a ceiling ("max") or
-// a floor ("min"). The document does not say; the headroom does, being
-// Level - Value on the max side and Value - Level on the min side
-// (risk/limits.Evaluate). It is "" when the value is absent.
-func limitSide(l pack.LimitStatus) string {
-	if l.Value == nil || l.Level == nil || l.Headroom == nil {
-		return ""
-	}
-	up, down := *l.Level-*l.Value, *l.Value-*l.Level
-	if math.Abs(*l.Headroom-up) <= math.Abs(*l.Headroom-down) {
-		return "max"
-	}
-	return "min"
-}
-
 // limitRows formats limits.
 func (b *builder) limitRows(ls []pack.LimitStatus) []tableRow {
 	var rows []tableRow
@@ -328,9 +305,12 @@ func (b *builder) limitRows(ls []pack.LimitStatus) []tableRow {
 		if l.Scenario != "" {
 			measure += ": " + l.Scenario
 		}
+		// The side says whether the level is a ceiling ("max") or a floor
+		// ("min"); documents stored before pack recorded it show the level
+		// alone.
 		level := Opt(l.Level, f)
-		if side := limitSide(l); side != "" {
-			level = side + " " + level
+		if l.Side != "" && l.Level != nil {
+			level = l.Side + " " + level
 		}
 		rows = append(rows, tableRow{
 			cells: []string{l.Name, measure, Opt(l.Value, f), level,

@@ -43,10 +43,11 @@ func TestHeadlineUsesPackNames(t *testing.T) {
 			t.Errorf("%q: change %q, want %q", f.Label, f.Change, want)
 		}
 	}
-	// Value, five returns, the 63-day and EWMA volatilities, VaR, ES, four
-	// durations and convexity, beta, tracking error and drawdown.
-	if followed != 17 {
-		t.Errorf("%d summary rows follow a pack metric, want 17", followed)
+	// Value, five returns, the 21-, 63- and 252-day and EWMA volatilities,
+	// VaR, ES, four durations and convexity, beta, tracking error and
+	// drawdown.
+	if followed != 19 {
+		t.Errorf("%d summary rows follow a pack metric, want 19", followed)
 	}
 	// Every metric pack follows is labelled on purpose, not by the
 	// fallback that turns a name into words.
@@ -60,24 +61,32 @@ func TestHeadlineUsesPackNames(t *testing.T) {
 	}
 }
 
-// The side of a limit follows from the headroom convention of
-// risk/limits.Evaluate: Level - Value on the max side, Value - Level on
-// the min side.
-func TestLimitSide(t *testing.T) {
+// The breach-level column prints the side the document records
+// (pack.LimitStatus.Side, from risk/limits.Evaluate) before the level:
+// "max" for a ceiling, "min" for a floor. A document stored before the
+// side was recorded shows the level alone; nothing is inferred from the
+// headroom, so a side that the headroom's sign would contradict is still
+// printed as recorded.
+func TestLimitRowsSide(t *testing.T) {
+	b := &builder{ccy: "USD"}
+	pct := func(x float64) string { return metricOf(pack.MetricMaxSingleName).format(x, "USD") }
 	for _, tt := range []struct {
 		name                   string
+		side                   string
 		value, level, headroom *float64
 		want                   string
 	}{
-		{"cap met", f64(0.2), f64(0.3), f64(0.1), "max"},
-		{"cap breached", f64(0.3647), f64(0.30), f64(-0.0647), "max"},
-		{"floor met", f64(16.97), f64(10), f64(6.97), "min"},
-		{"floor breached", f64(8), f64(10), f64(-2), "min"},
-		{"no data", nil, f64(10), nil, ""},
+		{"cap met", "max", f64(0.2), f64(0.3), f64(0.1), "max " + pct(0.3)},
+		{"floor breached", "min", f64(0.08), f64(0.1), f64(-0.02), "min " + pct(0.1)},
+		{"recorded, not inferred", "max", f64(0.4), f64(0.3), f64(0.1), "max " + pct(0.3)},
+		{"no data", "max", nil, f64(0.3), nil, "max " + pct(0.3)},
+		{"stored without a side", "", f64(0.2), f64(0.3), f64(0.1), pct(0.3)},
+		{"no level", "", nil, nil, nil, NA},
 	} {
-		l := pack.LimitStatus{Value: tt.value, Level: tt.level, Headroom: tt.headroom}
-		if got := limitSide(l); got != tt.want {
-			t.Errorf("%s: side %q, want %q", tt.name, got, tt.want)
+		l := pack.LimitStatus{Name: tt.name, Metric: pack.MetricMaxSingleName, Side: tt.side, Value: tt.value, Level: tt.level, Headroom: tt.headroom}
+		rows := b.limitRows([]pack.LimitStatus{l})
+		if got := rows[0].cells[3]; got != tt.want {
+			t.Errorf("%s: breach level %q, want %q", tt.name, got, tt.want)
 		}
 	}
 }

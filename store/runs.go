@@ -20,7 +20,7 @@ type NewRun struct {
 	PortfolioID    string
 	AsOf           time.Time
 	CreatedAt      time.Time
-	Reason         string // required when a current run of the date exists
+	Reason         string // required, and stored, only when a current run of the date exists
 	ProgramVersion string
 	ConfigJSON     []byte
 	ConfigHash     string
@@ -98,8 +98,6 @@ func (db *DB) SaveRun(ctx context.Context, nr NewRun, complete func(*Run) (*Comp
 		}
 		rev = int(prevRev.Int64) + 1
 		supersedes = prevID.Int64
-		reason = nr.Reason
-	} else if nr.Reason != "" {
 		reason = nr.Reason
 	}
 	res, err := tx.ExecContext(ctx, `INSERT INTO runs (portfolio_id, as_of, revision, supersedes, reason,

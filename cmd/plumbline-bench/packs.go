@@ -294,7 +294,7 @@ func runPackStage(ctx context.Context, stage string, s packSize, dir string, per
 			return err
 		}
 		t0 := time.Now()
-		pdf, pages, err := jobs.RenderRun(run, cfg)
+		pdf, pages, err := jobs.RenderRun(run)
 		if err != nil {
 			return err
 		}

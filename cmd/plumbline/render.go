@@ -45,7 +45,7 @@ func (c *renderCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	cfg, db, err := c.open(ctx)
+	_, db, err := c.open(ctx)
 	if err != nil {
 		return err
 	}
@@ -54,7 +54,7 @@ func (c *renderCmd) Run(ctx context.Context, env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	pdf, pages, err := jobs.RenderRun(run, cfg)
+	pdf, pages, err := jobs.RenderRun(run)
 	if err != nil {
 		return err
 	}

@@ -104,8 +104,9 @@ func printRun(env *Env, run *store.Run, doc *pack.Document) error {
 	for _, v := range s.Volatility {
 		row(fmt.Sprintf("Volatility %dd (ann.)", v.WindowDays), report.Opt(v.Discrete, report.Pct))
 	}
-	for _, v := range doc.VaR {
-		if v.HorizonDays == 1 && v.Method == "historical" {
+	// The historical one-day figures pack computes, in its order.
+	for _, c := range []float64{0.95, 0.975, 0.99} {
+		if v := pack.FindVaR(doc, "historical", c, 1); v != nil {
 			row(fmt.Sprintf("VaR %g%% 1d (historical)", v.Confidence*100), report.Pct(v.VaR)+"  "+report.Money(v.VaRAmount, ccy))
 			row(fmt.Sprintf("ES %g%% 1d (historical)", v.Confidence*100), report.Pct(v.ES)+"  "+report.Money(v.ESAmount, ccy))
 		}

@@ -11,6 +11,7 @@ import (
 	toml "github.com/pelletier/go-toml/v2"
 
 	"plumbline/risk/limits"
+	"plumbline/risk/pack"
 	"plumbline/risk/stress"
 )
 
@@ -118,6 +119,9 @@ func (c *Config) validateStress() Errors {
 	if s.WorstWindowDays < 1 || s.WorstWindowDays > maxWindowDays {
 		es = append(es, c.errAt("stress.worst_window_days", "%d is outside 1..%d trading days", s.WorstWindowDays, maxWindowDays))
 	}
+	// Scenarios, replays and the worst-window replay share one namespace:
+	// their results are stored under the scenario scope by name.
+	worst := pack.WorstWindowName(s.WorstWindowDays)
 	seen := map[string]int{}
 	for i, r := range s.Replays {
 		t := "stress.replay." + strconv.Itoa(i)
@@ -125,6 +129,10 @@ func (c *Config) validateStress() Errors {
 			es = append(es, c.errIn(t, "name", "a replay window needs a name"))
 		} else if j, dup := seen[r.Name]; dup {
 			es = append(es, c.errIn(t, "name", "replay name %q is already used at line %d", r.Name, c.Line("stress.replay."+strconv.Itoa(j))))
+		} else if r.Name == worst {
+			es = append(es, c.errIn(t, "name", "replay name %q is the name of the worst-window replay (stress.worst_window_days = %d); choose another", r.Name, s.WorstWindowDays))
+		} else if where := c.scenarioNamed(r.Name); where != "" {
+			es = append(es, c.errIn(t, "name", "replay name %q is already a scenario's name (%s); replays and scenarios need distinct names", r.Name, where))
 		} else {
 			seen[r.Name] = i
 		}
@@ -141,6 +149,25 @@ func (c *Config) validateStress() Errors {
 		}
 	}
 	return es
+}
+
+// scenarioNamed says where the scenario called name is defined: "line N"
+// for a [[scenario]] table, "built in" for one of the standard set in
+// use, "" when there is none.
+func (c *Config) scenarioNamed(name string) string {
+	for i, s := range c.Scenarios {
+		if s.Name == name {
+			return fmt.Sprintf("line %d", c.Line("scenario."+strconv.Itoa(i)))
+		}
+	}
+	if c.Stress.UseStandardSet {
+		for _, s := range stress.Standard() {
+			if s.Name == name {
+				return "built in"
+			}
+		}
+	}
+	return ""
 }
 
 // stressDate reads a replay date: a TOML local date or a "YYYY-MM-DD"
@@ -224,6 +251,8 @@ func (c *Config) validateScenarios() Errors {
 			add(c.errIn(t, "name", "a scenario needs a name"))
 		case standard[s.Name]:
 			add(c.errIn(t, "name", "%q is a built-in scenario; choose another name or set stress.use_standard_set = false", s.Name))
+		case s.Name == pack.WorstWindowName(c.Stress.WorstWindowDays):
+			add(c.errIn(t, "name", "scenario name %q is the name of the worst-window replay (stress.worst_window_days = %d); choose another", s.Name, c.Stress.WorstWindowDays))
 		default:
 			if j, dup := seen[s.Name]; dup {
 				add(c.errIn(t, "name", "scenario name %q is already used at line %d", s.Name, c.Line("scenario."+strconv.Itoa(j))))

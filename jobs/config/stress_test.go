@@ -293,6 +293,44 @@ name = "a"
 from = "2023-09-01"
 to = "2023-09-30"
 `, []string{"test.toml:8:", "already used at line 2"}},
+		// Scenarios, replays and the worst-window replay share the
+		// scenario scope of the stored metrics, keyed by name.
+		{"replay named as a built-in scenario", `
+[[stress.replay]]
+name = "market -20%"
+from = 2022-09-01
+to = 2022-09-30
+`, []string{"test.toml:3:", "stress.replay.0.name", `"market -20%" is already a scenario's name (built in)`}},
+		{"replay named as a scenario table", `
+[[scenario]]
+name = "twist"
+ns_slope_bp = 50
+
+[[stress.replay]]
+name = "twist"
+from = 2022-09-01
+to = 2022-09-30
+`, []string{"test.toml:7:", "stress.replay.0.name", `"twist" is already a scenario's name (line 2)`}},
+		{"replay named as the worst window", `
+[[stress.replay]]
+name = "worst 10-day window"
+from = 2022-09-01
+to = 2022-09-30
+`, []string{"test.toml:3:", "stress.replay.0.name", "worst-window replay (stress.worst_window_days = 10)"}},
+		{"replay named as a configured worst window", `
+[stress]
+worst_window_days = 20
+
+[[stress.replay]]
+name = "worst 20-day window"
+from = 2022-09-01
+to = 2022-09-30
+`, []string{"test.toml:6:", "stress.replay.0.name", "worst-window replay (stress.worst_window_days = 20)"}},
+		{"scenario named as the worst window", `
+[[scenario]]
+name = "worst 10-day window"
+rates_bp = 50
+`, []string{"test.toml:3:", "scenario.0.name", "worst-window replay"}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -311,6 +349,33 @@ to = "2023-09-30"
 				t.Errorf("error %T is neither Errors nor *Error", err)
 			}
 		})
+	}
+}
+
+// TestReplayNamesAccepted: a name is refused only where it clashes: a
+// built-in scenario's name is free when the standard set is off, and a
+// worst-window name of another length is an ordinary name.
+func TestReplayNamesAccepted(t *testing.T) {
+	for name, doc := range map[string]string{
+		"standard set off": `
+[stress]
+use_standard_set = false
+
+[[stress.replay]]
+name = "market -20%"
+from = 2022-09-01
+to = 2022-09-30
+`,
+		"another window length": `
+[[stress.replay]]
+name = "worst 20-day window"
+from = 2022-09-01
+to = 2022-09-30
+`,
+	} {
+		if _, err := Parse("test.toml", []byte(doc)); err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
 	}
 }
 

@@ -45,6 +45,7 @@ type priceSeries struct {
 	days  []int64
 	first int       // calendar index of the first bar
 	ret   []float64 // calendar-aligned daily total returns, built on demand
+	week  []float64 // weekly total returns on the run's week ends (run.weeklyOf), built on demand
 }
 
 func (s *priceSeries) close(k int) float64 { return s.src.Close[k] }

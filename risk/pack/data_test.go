@@ -85,11 +85,21 @@ func TestParamsValidate(t *testing.T) {
 		"replay backwards": func(p *Params) { p.Replays[0].From, p.Replays[0].To = p.Replays[0].To, p.Replays[0].From },
 		"limit no breach":  func(p *Params) { p.Limits[0].BreachMax, p.Limits[0].WarnMax = nil, nil },
 		"history 0":        func(p *Params) { p.HistoryDays = 0 },
+		// Scenarios and replays share the scenario scope of Metrics.
+		"replay named as a scenario":         func(p *Params) { p.Replays[0].Name = p.Scenarios[0].Name },
+		"replay named as the worst window":   func(p *Params) { p.Replays[0].Name = "worst 10-day window" },
+		"scenario named as the worst window": func(p *Params) { p.Scenarios[1].Name = "worst 10-day window" },
 	} {
 		p := fxParams()
 		edit(&p)
 		if err := p.Validate(); err == nil || !errors.Is(err, ErrParams) {
 			t.Errorf("%s: %v", name, err)
 		}
+	}
+	// The worst-window name is that of the configured length only.
+	p := fxParams()
+	p.Replays[0].Name = "worst 20-day window"
+	if err := p.Validate(); err != nil {
+		t.Errorf("a replay named after another window length: %v", err)
 	}
 }

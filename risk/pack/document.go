@@ -210,6 +210,14 @@ type CurvePoint struct {
 
 // Explain is a second-order Taylor explanation of a return from changes
 // in k and g between two dates, beside full revaluation.
+//
+// For a holding, DeltaK and DeltaG are its own changes k1 − k0 and
+// g1 − g0 (decimal). For the portfolio, whose Taylor terms sum each
+// holding's own, they are the value-weighted averages of the included
+// holdings' changes, Δk_p = Σ_i MV_i·Δk_i / Σ_i MV_i with MV_i at From
+// (cash and holdings left out of the explanation not counted; zero when
+// no holding is included): a summary of how far k and g moved, not a
+// move the Taylor terms were computed from.
 type Explain struct {
 	From     string   `json:"from"`
 	To       string   `json:"to"`
@@ -295,7 +303,12 @@ type LimitStatus struct {
 	// Scenario names the scenario of a scenario_loss limit.
 	Scenario string   `json:"scenario,omitempty"`
 	Value    *float64 `json:"value,omitempty"`
-	Status   string   `json:"status"`             // "ok", "warning", "breach", "no_data"
+	Status   string   `json:"status"` // "ok", "warning", "breach", "no_data"
+	// Side tells which bound Level is: "max" (a ceiling, Headroom =
+	// Level − Value) or "min" (a floor, Headroom = Value − Level); for a
+	// range, the one nearer the value (max on a tie or without a value).
+	// Documents written before the field have none.
+	Side     string   `json:"side,omitempty"`
 	Level    *float64 `json:"level,omitempty"`    // the breach level nearest the value
 	Headroom *float64 `json:"headroom,omitempty"` // to the breach level, metric units
 }

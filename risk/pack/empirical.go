@@ -58,7 +58,7 @@ func (r *run) empirical() {
 	for i := range r.doc.Holdings {
 		h := &r.doc.Holdings[i]
 		ps := r.d.prices[h.ID]
-		if h.Empirical = fit(r.weekly(r.d.calReturns(ps), ps.first)); h.Empirical == nil {
+		if h.Empirical = fit(r.weeklyOf(ps)); h.Empirical == nil {
 			none = append(none, h.ID)
 		}
 	}

@@ -98,5 +98,30 @@ func (r *run) explain() {
 		}
 		r.finding("explain_partial", "", share, "left out of the week's return explanation (share of the %s value): %s", from, strings.Join(ids, ", "))
 	}
-	doc.Explain = &Explain{From: from, To: doc.AsOf, Taylor: pe.Taylor, Full: pe.Revaluation, Residual: pe.Unexplained, Actual: doc.Summary.Returns.Week}
+	dk, dg := meanMoves(ps)
+	doc.Explain = &Explain{From: from, To: doc.AsOf, DeltaK: dk, DeltaG: dg, Taylor: pe.Taylor, Full: pe.Revaluation, Residual: pe.Unexplained, Actual: doc.Summary.Returns.Week}
+}
+
+// meanMoves returns the value-weighted averages of Δk and Δg over the
+// holdings valuation.ExplainPortfolio includes (cash, holdings with an
+// error and negative values left out), weighted by their values at the
+// first date:
+//
+//	Δk_p = Σ_i MV_i·Δk_i / Σ_i MV_i,   Δg_p likewise
+//
+// Both are zero when no holding is included.
+func meanMoves(ps []valuation.ExplainPosition) (dk, dg float64) {
+	var mv float64
+	for _, p := range ps {
+		if p.Cash || p.Err != nil || p.MarketValue < 0 {
+			continue
+		}
+		mv += p.MarketValue
+		dk += p.MarketValue * p.Explanation.DK
+		dg += p.MarketValue * p.Explanation.DG
+	}
+	if !(mv > 0) {
+		return 0, 0
+	}
+	return dk / mv, dg / mv
 }

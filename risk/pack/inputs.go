@@ -3,8 +3,9 @@ package pack
 import "time"
 
 // Inputs is everything one portfolio's pack is computed from, gathered
-// from the store by the pipeline. Its canonical JSON is what the run's
-// input hash covers, and what an export writes back out as CSV.
+// from the store by the pipeline. The run's input hash covers every row
+// in it except Sources (see jobs' inputHash), and an export writes it back
+// out as CSV in the ingest formats.
 type Inputs struct {
 	AsOf         time.Time     `json:"as_of"`
 	BaseCurrency string        `json:"base_currency"`

@@ -22,37 +22,37 @@ func (r *run) limitValues() limits.Values {
 			m[name] = *v
 		}
 	}
-	put("duration_modified", s.ModifiedDuration)
-	put("convexity", s.Convexity)
-	put("growth_duration", s.GrowthDuration)
+	put(MetricDurModified, s.ModifiedDuration)
+	put(MetricConvexity, s.Convexity)
+	put(MetricGrowthDuration, s.GrowthDuration)
 	if s.Empirical != nil {
-		m["duration_empirical"] = s.Empirical.Value
+		m[MetricDurEmpirical] = s.Empirical.Value
 	}
-	put("beta", s.Beta)
+	put(MetricBeta, s.Beta)
 	for _, w := range []int{21, 63, 252} {
 		if n := len(r.port); n >= w {
 			if sd, err := stats.StdDev(r.port[n-w:]); err == nil {
-				m[fmt.Sprintf("volatility_ann_%dd", w)] = sd * math.Sqrt(stats.TradingDaysPerYear)
+				m[VolatilityMetric(w)] = sd * math.Sqrt(stats.TradingDaysPerYear)
 			}
 		}
 	}
-	put("volatility_ewma_ann", s.EWMAVolatility)
-	put("tracking_error_ann", s.TrackingError)
-	if v := varFigure(doc, "historical", 0.95, 1); v != nil {
-		m["var_95_1d"] = v.VaR
+	put(MetricEWMA, s.EWMAVolatility)
+	put(MetricTrackingError, s.TrackingError)
+	if v := FindVaR(doc, "historical", 0.95, 1); v != nil {
+		m[LossMetric("var", v)] = v.VaR
 	}
-	if v := varFigure(doc, "historical", 0.99, 1); v != nil {
-		m["var_99_1d"] = v.VaR
+	if v := FindVaR(doc, "historical", 0.99, 1); v != nil {
+		m[LossMetric("var", v)] = v.VaR
 	}
-	if v := varFigure(doc, "historical", 0.975, 1); v != nil {
-		m["es_975_1d"] = v.ES
+	if v := FindVaR(doc, "historical", 0.975, 1); v != nil {
+		m[LossMetric("es", v)] = v.ES
 	}
-	m["cash_weight"] = doc.Concentration.CashWeight
+	m[MetricCashWeight] = doc.Concentration.CashWeight
 	if len(doc.Holdings) > 0 {
-		m["max_single_name_weight"] = doc.Concentration.MaxSingleName
-		m["max_sector_weight"] = doc.Concentration.MaxSector
+		m[MetricMaxSingleName] = doc.Concentration.MaxSingleName
+		m[MetricMaxSector] = doc.Concentration.MaxSector
 	}
-	put("worst_window_loss", r.worstLoss)
+	put(MetricWorstWindowLoss, r.worstLoss)
 	sc := map[string]float64{}
 	for _, x := range doc.Stress {
 		sc[x.Name] = -x.PnLPct
@@ -70,7 +70,7 @@ func (r *run) limits() error {
 		return fmt.Errorf("limits: %w", err)
 	}
 	for _, x := range st {
-		ls := LimitStatus{Name: x.Name, Metric: x.Metric, Scenario: x.Scenario, Status: string(x.Status), Level: ptr(x.Level)}
+		ls := LimitStatus{Name: x.Name, Metric: x.Metric, Scenario: x.Scenario, Status: string(x.Status), Side: string(x.Side), Level: ptr(x.Level)}
 		if x.Status == limits.StateNoData {
 			ls.Status = "no_data"
 		} else {

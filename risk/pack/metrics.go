@@ -34,6 +34,14 @@ const (
 	MetricMaxSingleName  = "max_single_name_weight" // decimal
 )
 
+// Names of the limit metrics (limits.Metrics) that pack measures beyond
+// the headline ones, all decimals of portfolio value.
+const (
+	MetricCashWeight      = "cash_weight"       // cash, negative for an overdraft
+	MetricMaxSector       = "max_sector_weight" // the largest sector
+	MetricWorstWindowLoss = "worst_window_loss" // the worst replayed window's loss, positive
+)
+
 // VolatilityMetric is the name of the annualised volatility over a
 // window, "volatility_ann_63d" (decimal).
 func VolatilityMetric(windowDays int) string {
@@ -53,10 +61,10 @@ func LossMetric(kind string, v *VaRFigure) string {
 }
 
 // Headline returns the headline metrics of a Document: the ones the
-// history charts and drift follow (names and units above). The volatility
-// is that of the 63-day window when configured, else of the first window;
-// VaR and ES are historical, 1 day, at 99% (and ES at 97.5%). A figure the
-// Document does not have is left out, never zero.
+// history charts and drift follow (names and units above). Volatilities
+// are those of every configured window (VolatilityMetric); VaR and ES are
+// historical, 1 day, at 99% (and ES at 97.5%). A figure the Document does
+// not have is left out, never zero.
 func Headline(doc *Document) map[string]float64 {
 	m := map[string]float64{}
 	put := func(name string, v *float64) {
@@ -73,19 +81,13 @@ func Headline(doc *Document) map[string]float64 {
 	put(MetricReturnYTD, r.YearToDate)
 	put(MetricReturnSI, r.SinceInception)
 	put(MetricEWMA, s.EWMAVolatility)
-	if len(s.Volatility) > 0 {
-		w := s.Volatility[0]
-		for _, x := range s.Volatility {
-			if x.WindowDays == 63 {
-				w = x
-			}
-		}
+	for _, w := range s.Volatility {
 		put(VolatilityMetric(w.WindowDays), w.Discrete)
 	}
-	if v := varFigure(doc, "historical", 0.99, 1); v != nil {
+	if v := FindVaR(doc, "historical", 0.99, 1); v != nil {
 		m[LossMetric("var", v)], m[LossMetric("es", v)] = v.VaR, v.ES
 	}
-	if v := varFigure(doc, "historical", 0.975, 1); v != nil {
+	if v := FindVaR(doc, "historical", 0.975, 1); v != nil {
 		m[LossMetric("es", v)] = v.ES
 	}
 	put(MetricDurModified, s.ModifiedDuration)
@@ -152,11 +154,8 @@ func Metrics(doc *Document) []Metric {
 		}
 	}
 	const P = ScopePortfolio
-	for name, v := range Headline(doc) {
-		add(P, "", name, v)
-	}
 	s := &doc.Summary
-	add(P, "", "value", s.Value)
+	add(P, "", MetricValue, s.Value)
 	add(P, "", "cash", s.Cash)
 	add(P, "", "holding_count", float64(s.HoldingCount))
 	r := &s.Returns
@@ -194,8 +193,8 @@ func Metrics(doc *Document) []Metric {
 	add(P, "", "effective_n", c.EffectiveN)
 	add(P, "", "top5_weight", c.Top5Weight)
 	add(P, "", MetricMaxSingleName, c.MaxSingleName)
-	add(P, "", "max_sector_weight", c.MaxSector)
-	add(P, "", "cash_weight", c.CashWeight)
+	add(P, "", MetricMaxSector, c.MaxSector)
+	add(P, "", MetricCashWeight, c.CashWeight)
 	for _, v := range doc.VaR {
 		add(P, "", LossMetric("var", &v), v.VaR)
 		add(P, "", LossMetric("es", &v), v.ES)
@@ -256,6 +255,9 @@ func Metrics(doc *Document) []Metric {
 		opt(ScopeLimit, l.Name, "level", l.Level)
 		opt(ScopeLimit, l.Name, "headroom", l.Headroom)
 	}
+	// Every name is added once per scope and key; the compaction only
+	// guards against a document whose scenario and replay share a name
+	// (Params.Validate refuses that since; older documents may have it).
 	slices.SortStableFunc(out, func(a, b Metric) int {
 		return cmp.Or(cmp.Compare(a.Scope, b.Scope), cmp.Compare(a.Key, b.Key), cmp.Compare(a.Name, b.Name))
 	})

@@ -132,6 +132,9 @@ func (p Params) Validate() error {
 	if p.Drift.MinHistory < 0 {
 		bad("drift minimum history %d is negative", p.Drift.MinHistory)
 	}
+	// Scenarios, named replays and the worst-window replay share one
+	// namespace: the scenario scope of Metrics, keyed by name.
+	worst := WorstWindowName(p.WorstWindowDays)
 	names := map[string]bool{}
 	for i, sc := range p.Scenarios {
 		switch {
@@ -139,6 +142,8 @@ func (p Params) Validate() error {
 			bad("scenario %d has no name", i+1)
 		case names[sc.Name]:
 			bad("scenario %q given twice", sc.Name)
+		case sc.Name == worst:
+			bad("scenario %q has the name of the worst-window replay", sc.Name)
 		}
 		names[sc.Name] = true
 		if err := sc.Shock.Validate(); err != nil {
@@ -152,6 +157,10 @@ func (p Params) Validate() error {
 			bad("replay %d has no name", i+1)
 		case replays[w.Name]:
 			bad("replay %q given twice", w.Name)
+		case names[w.Name]:
+			bad("replay %q has the name of a stress scenario", w.Name)
+		case w.Name == worst:
+			bad("replay %q has the name of the worst-window replay", w.Name)
 		}
 		replays[w.Name] = true
 		if w.From.IsZero() || w.To.IsZero() || dayOf(w.To) < dayOf(w.From) {

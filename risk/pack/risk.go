@@ -85,15 +85,11 @@ func (r *run) backtest() {
 	if days < r.p.BacktestDays {
 		r.finding("short_history", "", 1, "VaR backtest over %d days, fewer than the %d configured", days, r.p.BacktestDays)
 	}
-	forecast := make([]float64, days)
-	for j := range days {
-		t := n - days + j
-		e, err := stats.HistoricalVaR(port[t-L:t], backtestConfidence)
-		if err != nil {
-			r.finding("backtest_unavailable", "", 1, "backtest VaR: %v", err)
-			return
-		}
-		forecast[j] = e.VaR
+	// forecast[j] is the VaR of the L returns before day n-days+j.
+	forecast, err := stats.VaRForecasts(port[n-days-L:], L, stats.VaRSpec{Method: stats.Historical, Confidence: backtestConfidence, HorizonDays: 1})
+	if err != nil {
+		r.finding("backtest_unavailable", "", 1, "backtest VaR: %v", err)
+		return
 	}
 	bt, err := stats.Backtest(port[n-days:], forecast, backtestConfidence)
 	if err != nil {
@@ -106,11 +102,14 @@ func (r *run) backtest() {
 	}
 }
 
-// varFigure returns the figure of a method, confidence and horizon.
-func varFigure(doc *Document, method string, confidence float64, horizon int) *VaRFigure {
+// FindVaR returns the document's VaR figure of a method ("historical",
+// "normal", "cornish_fisher"), confidence (0.99) and horizon (trading
+// days), or nil when the document has none. The figure is doc's own, not
+// a copy.
+func FindVaR(doc *Document, method string, confidence float64, horizonDays int) *VaRFigure {
 	for i := range doc.VaR {
 		v := &doc.VaR[i]
-		if v.Method == method && v.Confidence == confidence && v.HorizonDays == horizon {
+		if v.Method == method && v.Confidence == confidence && v.HorizonDays == horizonDays {
 			return v
 		}
 	}

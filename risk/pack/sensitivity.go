@@ -173,7 +173,6 @@ func (r *run) summarise(agg valuation.PortfolioSensitivities) {
 	}
 	var lvl, slp, crv float64
 	hasNS := false
-	sectorDur := map[string]*[2]float64{}
 	for i := range doc.Holdings {
 		h, v := &doc.Holdings[i], &r.vals[i]
 		c, ok := contrib[h.ID]
@@ -181,13 +180,6 @@ func (r *run) summarise(agg valuation.PortfolioSensitivities) {
 			continue
 		}
 		h.ContribDuration, h.ContribGrowthDuration = ptr(c.ModifiedDuration), ptr(c.GrowthDuration)
-		sd := sectorDur[h.Sector]
-		if sd == nil {
-			sd = &[2]float64{}
-			sectorDur[h.Sector] = sd
-		}
-		sd[0] += c.ModifiedDuration
-		sd[1] += c.GrowthDuration
 		if v.hasNS {
 			hasNS = true
 			lvl += c.Weight * v.level
@@ -198,9 +190,21 @@ func (r *run) summarise(agg valuation.PortfolioSensitivities) {
 	if hasNS {
 		s.LevelDuration, s.SlopeDuration, s.CurvatureDuration = ptr(lvl), ptr(slp), ptr(crv)
 	}
+	// Sector contributions are Aggregate's sums of the holdings'
+	// contributions, in holding order. Its CashSector holds the cash line
+	// at zero duration: alone it is no sector of the Document; with
+	// securities filed under the same name the cash line adds nothing.
+	sectors := make(map[string]*valuation.SectorContribution, len(agg.Sectors))
+	for i := range agg.Sectors {
+		sc := &agg.Sectors[i]
+		if sc.Sector == valuation.CashSector && sc.Holdings == 1 {
+			continue
+		}
+		sectors[sc.Sector] = sc
+	}
 	for i := range doc.Sectors {
-		if sd := sectorDur[doc.Sectors[i].Name]; sd != nil {
-			doc.Sectors[i].ContribDuration, doc.Sectors[i].ContribGrowthDuration = ptr(sd[0]), ptr(sd[1])
+		if sc := sectors[doc.Sectors[i].Name]; sc != nil {
+			doc.Sectors[i].ContribDuration, doc.Sectors[i].ContribGrowthDuration = ptr(sc.ModifiedDuration), ptr(sc.GrowthDuration)
 		}
 	}
 }

@@ -132,6 +132,12 @@ func contributors(hs []stress.HoldingPnL, taylor bool) []Contributor {
 	return out
 }
 
+// WorstWindowName is the name of the worst-window replay of a run whose
+// worst window is days trading days long, "worst 10-day window". It
+// shares the scenario scope of Metrics with the stress scenarios and the
+// named replays, so none of them may take it (Params.Validate).
+func WorstWindowName(days int) string { return fmt.Sprintf("worst %d-day window", days) }
+
 // replays replays history on the current holdings: the worst
 // WorstWindowDays-day window of the stored calendar (stress.WorstWindow)
 // and each named window (stress.Replay), with every holding's daily total
@@ -175,8 +181,7 @@ func (r *run) replays(positions []stress.Position) {
 	} else if rr, err := stress.WorstWindow(positions, rows, w); err != nil {
 		r.finding("replay_unavailable", "", 1, "worst window: %v", err)
 	} else {
-		name := fmt.Sprintf("worst %d-day window", w)
-		sr := add(name, fmt.Sprintf("the %d consecutive trading days of stored history that lose most on the current holdings", w), rr)
+		sr := add(WorstWindowName(w), fmt.Sprintf("the %d consecutive trading days of stored history that lose most on the current holdings", w), rr)
 		r.worstLoss = ptr(-sr.PnLPct)
 	}
 	for _, nw := range r.p.Replays {

@@ -50,6 +50,17 @@ func (r *run) weekly(daily []float64, first int) []float64 {
 	return out
 }
 
+// weeklyOf returns a security's weekly total returns, the weekly
+// compounding of its calendar-aligned daily returns from its first bar
+// on. Built once per security: the beta and the empirical duration both
+// read it.
+func (r *run) weeklyOf(ps *priceSeries) []float64 {
+	if ps.week == nil {
+		ps.week = r.weekly(r.d.calReturns(ps), ps.first)
+	}
+	return ps.week
+}
+
 // pairs returns the weeks of the last `window` weeks where both series
 // have a value.
 func (r *run) pairs(y, x []float64, window int) (ys, xs []float64) {
@@ -89,7 +100,7 @@ func (r *run) betaOf(id string) betaEstimate {
 	case ps == nil:
 		be.err = errNoHistory{"no price history to estimate a beta from"}
 	default:
-		y, x := r.pairs(r.weekly(r.d.calReturns(ps), ps.first), r.benchWeek, r.p.BetaWindowWeeks)
+		y, x := r.pairs(r.weeklyOf(ps), r.benchWeek, r.p.BetaWindowWeeks)
 		be.reg, be.err = valuation.EstimateBeta(y, x)
 	}
 	r.betas[id] = be

@@ -40,7 +40,10 @@ type InputError struct {
 	Err   error   // one of the sentinel errors above
 }
 
-func (e *InputError) Error() string { return fmt.Sprintf("%v (%s = %g)", e.Err, e.Field, e.Value) }
+// Error names the field and its value to four significant digits, enough
+// to see what was refused without the noise of binary rounding
+// (-0.0020000000000000018 reads -0.002); Value keeps it in full.
+func (e *InputError) Error() string { return fmt.Sprintf("%v (%s = %.4g)", e.Err, e.Field, e.Value) }
 
 // Unwrap returns the sentinel error.
 func (e *InputError) Unwrap() error { return e.Err }

@@ -124,3 +124,36 @@ func TestInputErrorNamesStage(t *testing.T) {
 		t.Errorf("got %#v (%v)", ie, err)
 	}
 }
+
+// The message shows the refused value to four significant digits (Go's
+// fmt verb %.4g: the fmt package documentation) while the typed error
+// keeps it in full: 0.048 − 0.05 is −0.0020000000000000018 in float64
+// (IEEE 754 double rounding, checked with Python 3's float repr) and
+// reads −0.002.
+func TestInputErrorMessage(t *testing.T) {
+	k, g := 0.048, 0.05 // variables: constant arithmetic in Go is exact
+	_, err := GordonValue(1, k, g)
+	var ie *InputError
+	if !errors.As(err, &ie) || !errors.Is(err, ErrGrowthNotBelowRate) || ie.Value != k-g || ie.Value == -0.002 {
+		t.Fatalf("GordonValue(1, 0.048, 0.05): %#v (%v)", ie, err)
+	}
+	if got, want := err.Error(), ErrGrowthNotBelowRate.Error()+" (k - g = -0.002)"; got != want {
+		t.Errorf("message %q, want %q", got, want)
+	}
+	for _, tc := range []struct {
+		v    float64
+		want string
+	}{
+		{0.123456, "0.1235"},
+		{12, "12"},
+		{-1, "-1"},
+		{1e-9, "1e-09"},
+		{math.NaN(), "NaN"},
+		{math.Inf(-1), "-Inf"},
+	} {
+		e := &InputError{Field: "x", Value: tc.v, Err: ErrNotFinite}
+		if got, want := e.Error(), ErrNotFinite.Error()+" (x = "+tc.want+")"; got != want {
+			t.Errorf("%v: %q, want %q", tc.v, got, want)
+		}
+	}
+}
